@@ -1,0 +1,129 @@
+/**
+ * The `leeway` command line. Exit codes: 0 success, 1 a worksheet error or a failed check,
+ * 2 a usage error.
+ */
+import * as readline from 'readline';
+import { callFunction, CallResult, parseCliArg, UsageError } from './call';
+import { FUNCTIONS, NAMESPACE } from '../registry';
+import { VERSION } from '../engine/version';
+
+const USAGE = `leeway ${VERSION} — laboratory quality specifications, performance, QC design and uncertainty
+
+Usage:
+  leeway call FUNCTION [ARG ...]   evaluate one worksheet function (with or without the ${NAMESPACE}. prefix)
+  leeway call --lines              read ["FUNCTION", arg, ...] per line on stdin, write one JSON result per line
+  leeway list                      list the worksheet functions and their parameters
+  leeway help                      this text
+
+An ARG is a number, a word, or a JSON array for a range ([1,2,3] is a column, [[1,2],[3,4]] rows);
+null stands for an omitted optional argument.`;
+
+export interface Io {
+  out: (s: string) => void;
+  err: (s: string) => void;
+}
+
+const stdio: Io = {
+  out: (s) => process.stdout.write(s + '\n'),
+  err: (s) => process.stderr.write(s + '\n'),
+};
+
+function printResult(r: CallResult, io: Io): number {
+  if (r.ok) {
+    io.out(JSON.stringify(r.value));
+    return 0;
+  }
+  io.err(`${r.error} ${r.message}`);
+  return 1;
+}
+
+/** One --lines request turned into its JSON reply (never throws). */
+export function answerLine(line: string): string {
+  let request: unknown;
+  try {
+    request = JSON.parse(line);
+  } catch {
+    return JSON.stringify({ error: '#VALUE!', message: 'this line is not JSON: send ["FUNCTION", arg, ...]' });
+  }
+  if (!Array.isArray(request) || typeof request[0] !== 'string') {
+    return JSON.stringify({ error: '#VALUE!', message: 'each line must be a JSON array ["FUNCTION", arg, ...]' });
+  }
+  try {
+    const r = callFunction(request[0], request.slice(1));
+    return JSON.stringify(r.ok ? { value: r.value } : { error: r.error, message: r.message });
+  } catch (e) {
+    const message = e instanceof Error ? e.message : String(e);
+    return JSON.stringify({ error: '#VALUE!', message });
+  }
+}
+
+async function callLines(): Promise<number> {
+  const rl = readline.createInterface({ input: process.stdin, crlfDelay: Infinity });
+  const chunks: string[] = [];
+  for await (const line of rl) {
+    if (line.trim() === '') continue;
+    chunks.push(answerLine(line));
+    if (chunks.length >= 256) {
+      process.stdout.write(chunks.join('\n') + '\n');
+      chunks.length = 0;
+    }
+  }
+  if (chunks.length) process.stdout.write(chunks.join('\n') + '\n');
+  return 0;
+}
+
+function list(io: Io): number {
+  for (const f of FUNCTIONS) {
+    io.out(`${NAMESPACE}.${f.name}(${f.params.map((p) => (p.optional ? `[${p.name}]` : p.name)).join(', ')})`);
+  }
+  return 0;
+}
+
+export type Command = (args: string[], io: Io) => Promise<number> | number;
+
+/** Further commands (fill, demo, check, …) register here. */
+export const COMMANDS: Record<string, Command> = {
+  list: (_a, io) => list(io),
+  help: (_a, io) => {
+    io.out(USAGE);
+    return 0;
+  },
+  call: async (args, io) => {
+    if (args[0] === '--lines') {
+      if (args.length > 1) throw new UsageError('call --lines takes no further arguments');
+      return callLines();
+    }
+    if (args.length === 0) throw new UsageError('call needs a FUNCTION name');
+    return printResult(callFunction(args[0], args.slice(1).map(parseCliArg)), io);
+  },
+};
+
+export async function main(argv: string[], io: Io = stdio): Promise<number> {
+  const [command, ...rest] = argv;
+  if (!command || command === '--help' || command === '-h') {
+    io.out(USAGE);
+    return command ? 0 : 2;
+  }
+  if (command === '--version') {
+    io.out(VERSION);
+    return 0;
+  }
+  const run = COMMANDS[command];
+  try {
+    if (!run) throw new UsageError(`unknown command "${command}" (try: leeway help)`);
+    return await run(rest, io);
+  } catch (e) {
+    if (e instanceof UsageError) {
+      io.err(`leeway: ${e.message}`);
+      return 2;
+    }
+    io.err(`leeway: ${e instanceof Error ? e.message : String(e)}`);
+    return 1;
+  }
+}
+
+if (require.main === module) {
+  main(process.argv.slice(2)).then((code) => {
+    process.exitCode = code;
+  });
+}

@@ -1,0 +1,41 @@
+/**
+ * The one place where a registry result becomes what Excel's custom-functions runtime expects:
+ * each ErrorCell becomes a CustomFunctions.Error with Excel's code and our message.
+ * Only this file touches the CustomFunctions global.
+ */
+import { evaluate } from '../registry';
+import type { Arg } from '../registry';
+import type { ErrorCell, OutCell } from '../registry/types';
+
+type ExcelCell = number | string | CustomFunctions.Error;
+
+function codeOf(e: ErrorCell): CustomFunctions.ErrorCode {
+  switch (e.error) {
+    case '#VALUE!':
+      return CustomFunctions.ErrorCode.invalidValue;
+    case '#NUM!':
+      return CustomFunctions.ErrorCode.invalidNumber;
+    case '#DIV/0!':
+      return CustomFunctions.ErrorCode.divisionByZero;
+    case '#N/A':
+      return CustomFunctions.ErrorCode.notAvailable;
+  }
+}
+
+function toExcel(v: OutCell): ExcelCell {
+  if (typeof v !== 'object') return v;
+  return new CustomFunctions.Error(codeOf(v), v.message);
+}
+
+/** Evaluates a registered function for Excel; never throws. */
+export function run(name: string, args: readonly Arg[]): ExcelCell[][] {
+  const out = evaluate(name, args);
+  const rows: ExcelCell[][] = new Array(out.length);
+  for (let r = 0; r < out.length; r++) {
+    const src = out[r];
+    const row: ExcelCell[] = new Array(src.length);
+    for (let c = 0; c < src.length; c++) row[c] = toExcel(src[c]);
+    rows[r] = row;
+  }
+  return rows;
+}

@@ -1,0 +1,31 @@
+/**
+ * A small seeded pseudo-random generator for property tests (mulberry32; Tommy Ettinger's
+ * public-domain construction). Every property test states its seed, so a failure repeats.
+ */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** Uniform in [lo, hi). */
+export function uniform(rand: () => number, lo: number, hi: number): number {
+  return lo + (hi - lo) * rand();
+}
+
+/** Log relative error (digits of agreement), as NIST StRD reports accuracy; exact agreement → 15. */
+export function lre(computed: number, certified: number): number {
+  if (computed === certified) return 15;
+  const rel = certified === 0 ? Math.abs(computed) : Math.abs(computed - certified) / Math.abs(certified);
+  return Math.min(15, -Math.log10(rel));
+}
+
+/** expect-style check with an explicit relative tolerance. */
+export function relClose(actual: number, expected: number, rel: number): boolean {
+  return Math.abs(actual - expected) <= rel * Math.max(Math.abs(expected), Number.MIN_VALUE);
+}
