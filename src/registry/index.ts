@@ -6,12 +6,20 @@
 import { SPEC_FUNCTIONS } from './catalogue/spec';
 import { PERF_FUNCTIONS } from './catalogue/perf';
 import { BV_FUNCTIONS } from './catalogue/bv';
+import { DATA_FUNCTIONS } from './catalogue/data';
+import { QC_FUNCTIONS } from './catalogue/qc';
 import { evaluateDef } from './evaluate';
 import type { Arg, FunctionDef, Output } from './types';
 
 export const NAMESPACE = 'LEEWAY';
 
-export const FUNCTIONS: readonly FunctionDef[] = [...SPEC_FUNCTIONS, ...PERF_FUNCTIONS, ...BV_FUNCTIONS];
+export const FUNCTIONS: readonly FunctionDef[] = [
+  ...SPEC_FUNCTIONS,
+  ...PERF_FUNCTIONS,
+  ...BV_FUNCTIONS,
+  ...DATA_FUNCTIONS,
+  ...QC_FUNCTIONS,
+];
 
 const BY_NAME = new Map<string, FunctionDef>(FUNCTIONS.map((f) => [f.name, f]));
 
