@@ -1,0 +1,131 @@
+import { evaluate, findFunction, FUNCTIONS } from '../../src/registry';
+import type { Output } from '../../src/registry';
+
+const codeOf = (out: Output, r = 0, c = 0): string | undefined => {
+  const v = out[r][c];
+  return typeof v === 'object' ? v.error : undefined;
+};
+const messageOf = (out: Output): string => {
+  const v = out[0][0];
+  return typeof v === 'object' ? v.message : '';
+};
+
+describe('the registry', () => {
+  test('names are found with or without the LEEWAY. prefix, in any case', () => {
+    expect(findFunction('leeway.spec.cv')?.name).toBe('SPEC.CV');
+    expect(findFunction(' SPEC.CV ')?.name).toBe('SPEC.CV');
+    expect(findFunction('SPEC.NOPE')).toBeUndefined();
+  });
+
+  test('every function name is unique and every parameter name within a function is unique', () => {
+    const names = FUNCTIONS.map((f) => f.name);
+    expect(new Set(names).size).toBe(names.length);
+    for (const f of FUNCTIONS) expect(new Set(f.params.map((p) => p.name)).size).toBe(f.params.length);
+  });
+
+  test('optional parameters come after required ones', () => {
+    for (const f of FUNCTIONS) {
+      const firstOptional = f.params.findIndex((p) => p.optional);
+      if (firstOptional >= 0) expect(f.params.slice(firstOptional).every((p) => p.optional)).toBe(true);
+    }
+  });
+});
+
+describe('SPEC.md section 2 conventions through evaluate()', () => {
+  test('a single value gives a 1×1 result; omitted optionals take their defaults', () => {
+    expect(evaluate('SPEC.TOTAL', [5.7, 6.9])).toEqual(evaluate('SPEC.TOTAL', [5.7, 6.9, 'desirable', 1.65]));
+    expect(evaluate('SPEC.CV', [[[5.7]], null])).toEqual([[2.85]]);
+  });
+
+  test('tier words: case-insensitive, spaces ignored, short forms', () => {
+    for (const t of ['Optimum', ' OPT ', 'opt']) expect(evaluate('SPEC.CV', [10, t])).toEqual([[2.5]]);
+    expect(evaluate('SPEC.CV', [10, 'MIN'])).toEqual([[7.5]]);
+  });
+
+  test('if given an unknown tier, returns #VALUE! naming the accepted words', () => {
+    const out = evaluate('SPEC.CV', [10, 'best']);
+    expect(codeOf(out)).toBe('#VALUE!');
+    expect(messageOf(out)).toMatch(/optimum.*desirable.*minimum/);
+  });
+
+  test('a range spills a same-shaped result; a blank cell gives #N/A in that cell only', () => {
+    const out = evaluate('SPEC.CV', [[[4], [null], [8]]]);
+    expect(out[0][0]).toBe(2);
+    expect(codeOf(out, 1, 0)).toBe('#N/A');
+    expect(out[2][0]).toBe(4);
+  });
+
+  test('two ranges of one shape pair up cell by cell; a single cell broadcasts', () => {
+    const out = evaluate('SPEC.BIAS', [[[3, 6]], [[4, 8]], 'desirable']);
+    expect(out).toEqual([[1.25, 2.5]]);
+    expect(evaluate('SPEC.BIAS', [[[3], [6]], 4])).toEqual([[1.25], [0.25 * Math.hypot(6, 4)]]);
+  });
+
+  test('if given ranges that do not pair up, returns #VALUE!', () => {
+    const out = evaluate('SPEC.BIAS', [[[1], [2]], [[1], [2], [3]]]);
+    expect(codeOf(out)).toBe('#VALUE!');
+    expect(messageOf(out)).toMatch(/do not pair up/);
+  });
+
+  test('if given text where a number belongs, returns #VALUE!; a logical too', () => {
+    expect(codeOf(evaluate('SPEC.CV', ['abc']))).toBe('#VALUE!');
+    expect(codeOf(evaluate('SPEC.CV', [true]))).toBe('#VALUE!');
+  });
+
+  test('if given a negative CV, returns #NUM!; NaN or Infinity, #NUM!', () => {
+    expect(codeOf(evaluate('SPEC.CV', [-1]))).toBe('#NUM!');
+    expect(codeOf(evaluate('SPEC.CV', [NaN]))).toBe('#NUM!');
+    expect(codeOf(evaluate('SPEC.TOTAL', [1, 1, 'des', Infinity]))).toBe('#NUM!');
+  });
+
+  test('if a divisor is zero, returns #DIV/0!', () => {
+    expect(codeOf(evaluate('PERF.SIGMA', [10, 1, 0]))).toBe('#DIV/0!');
+    expect(codeOf(evaluate('SPEC.FIXED', [0, 1, 1]))).toBe('#DIV/0!');
+    expect(codeOf(evaluate('BV.INDIVIDUALITY', [3, 0]))).toBe('#DIV/0!');
+  });
+
+  test('if a probability is outside (0, 1), returns #NUM!', () => {
+    expect(codeOf(evaluate('ZSCORE', [0]))).toBe('#NUM!');
+    expect(codeOf(evaluate('ZSCORE', [1]))).toBe('#NUM!');
+    expect(codeOf(evaluate('ZSCORE', [0.95, 3]))).toBe('#NUM!');
+  });
+
+  test('if a required argument is missing, returns #N/A', () => {
+    expect(codeOf(evaluate('SPEC.BIAS', [5]))).toBe('#N/A');
+    expect(codeOf(evaluate('SPEC.BIAS', [5, null]))).toBe('#N/A');
+    expect(codeOf(evaluate('SPEC.BIAS', [5, [['']]]))).toBe('#N/A');
+  });
+
+  test('a blank cell in an optional argument takes the default', () => {
+    expect(evaluate('SPEC.CV', [10, [[null]]])).toEqual([[5]]);
+    expect(evaluate('SPEC.TOTAL', [[[3]], [[4]], [['']], [[null]]])).toEqual(evaluate('SPEC.TOTAL', [3, 4]));
+  });
+
+  test('SPEC.TIERS spills a 4×4 table with its header', () => {
+    const out = evaluate('SPEC.TIERS', [5.7, 6.9]);
+    expect(out.length).toBe(4);
+    expect(out[0]).toEqual(['Tier', 'CV', 'Bias', 'Total']);
+    expect(out.map((r) => r[0])).toEqual(['Tier', 'optimum', 'desirable', 'minimum']);
+    expect(out[2][1]).toBeCloseTo(2.85, 14);
+  });
+
+  test('SPEC.TIERS given a range for cvi returns #VALUE!', () => {
+    expect(codeOf(evaluate('SPEC.TIERS', [[[1], [2]], 3]))).toBe('#VALUE!');
+  });
+
+  test('PERF.TIER returns a word; words in ranges spill', () => {
+    expect(evaluate('PERF.TIER', [5.7, 6.9, 2, 2])).toEqual([['desirable']]);
+    expect(evaluate('PERF.TIER', [5.7, 6.9, [[1], [5]], [[1], [3.5]]])).toEqual([['optimum'], ['none']]);
+    expect(codeOf(evaluate('PERF.TIER', [5.7, 6.9, 2, 2, 1.65, 'whole']))).toBe('#VALUE!');
+  });
+
+  test('no output cell is ever NaN or Infinity', () => {
+    const out = evaluate('BV.SETPOINT', [1e200, 1e200, 1e-200]);
+    expect(codeOf(out)).toBe('#NUM!');
+  });
+
+  test('an unknown function or too many arguments is #VALUE!', () => {
+    expect(codeOf(evaluate('SPEC.NOPE', []))).toBe('#VALUE!');
+    expect(codeOf(evaluate('SPEC.CV', [1, 'des', 3]))).toBe('#VALUE!');
+  });
+});
