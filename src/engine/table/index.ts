@@ -1,0 +1,24 @@
+/**
+ * The variation-table library: import (CSV/TSV text or a worksheet range) with a report of every
+ * problem, acceptance, and export back to CSV. The task pane and `leeway check` use these same
+ * functions, so both give the same report.
+ */
+export type {
+  ColumnMapping,
+  Field,
+  HeaderMapping,
+  ImportOptions,
+  ImportResult,
+  Problem,
+  ProblemCode,
+  Severity,
+  VariationRow,
+  VariationTable,
+} from './types';
+export { FIELDS, NUMERIC_FIELDS, REQUIRED_FIELDS } from './types';
+export { HEADER_ALIASES, mapColumns, matchHeader, normaliseHeader } from './fields';
+export { readDecimal } from './numbers';
+export { acceptImport, formatProblem, formatReport, parseTableGrid, parseTableText, rowKey } from './parse';
+export type { GridCell } from './parse';
+export { tableToCsv } from './csv';
+export type { CsvOptions } from './csv';

@@ -1,0 +1,135 @@
+/**
+ * The variation table (SPEC.md section 5): the laboratory's own biological-variation data, one
+ * row per analyte and specimen. CVs are percent numbers (5.7 means 5.7 %).
+ */
+
+/** The columns of SPEC.md section 5, in its order. */
+export type Field = 'analyte' | 'specimen' | 'unit' | 'cvi' | 'cvg' | 'source' | 'limit_abs' | 'limit_pct' | 'level' | 'note';
+
+export const FIELDS: readonly Field[] = ['analyte', 'specimen', 'unit', 'cvi', 'cvg', 'source', 'limit_abs', 'limit_pct', 'level', 'note'];
+
+export const REQUIRED_FIELDS: readonly Field[] = ['analyte', 'cvi', 'source'];
+
+export const NUMERIC_FIELDS: readonly Field[] = ['cvi', 'cvg', 'limit_abs', 'limit_pct', 'level'];
+
+/** One analyte and specimen. Optional numbers are null when the cell is blank. */
+export interface VariationRow {
+  readonly analyte: string;
+  /** '' when the table has no specimen for this row. */
+  readonly specimen: string;
+  readonly unit: string;
+  /** Within-subject biological variation, %. */
+  readonly cvi: number;
+  /** Between-subject biological variation, %; null when not given. */
+  readonly cvg: number | null;
+  /** Where the values come from, with date. */
+  readonly source: string;
+  /** Fixed limit, absolute part (in the row's unit). */
+  readonly limitAbs: number | null;
+  /** Fixed limit, percent part. */
+  readonly limitPct: number | null;
+  /** Concentration at which a fixed limit is judged (in the row's unit). */
+  readonly level: number | null;
+  readonly note: string;
+  /** The row as a spreadsheet shows the file (header = row 1), for messages. */
+  readonly line: number;
+}
+
+/** An accepted table: what the task pane stores and the fill planner reads. */
+export interface VariationTable {
+  /** The name the user knows it by (the file name by default). */
+  readonly name: string;
+  /** Where the table came from: a file name, a worksheet range, or "built-in demo table". */
+  readonly origin: string;
+  /** When it was imported, ISO 8601 (date and time, UTC). */
+  readonly importedAt: string;
+  /** True for the invented demo table: every output says so. */
+  readonly demo: boolean;
+  readonly rows: readonly VariationRow[];
+}
+
+export type Severity = 'error' | 'warning';
+
+export type ProblemCode =
+  | 'empty-file'
+  | 'no-data'
+  | 'missing-column'
+  | 'duplicate-column'
+  | 'unknown-header'
+  | 'blank-header'
+  | 'extra-fields'
+  | 'parse'
+  | 'missing-value'
+  | 'not-a-number'
+  | 'negative'
+  | 'zero'
+  | 'implausible'
+  | 'needs-level'
+  | 'duplicate-row';
+
+/** One finding of the import check, located as a spreadsheet shows the file. */
+export interface Problem {
+  readonly severity: Severity;
+  readonly code: ProblemCode;
+  /** 1-based row; the header is row 1. */
+  readonly row: number;
+  /** Column letters (A, B, …), or null when the problem is a column that is missing altogether. */
+  readonly column: string | null;
+  /** The field concerned, when there is one. */
+  readonly field?: Field;
+  /** Says what is wrong and what to do. */
+  readonly message: string;
+}
+
+/** How one column of the file is read. */
+export interface ColumnMapping {
+  /** 1-based column number. */
+  readonly index: number;
+  readonly letter: string;
+  /** The header text as written in the file (trimmed). */
+  readonly header: string;
+  /** The field it feeds, or null: ignored. */
+  readonly field: Field | null;
+  /** How the field was chosen. */
+  readonly by: 'name' | 'alias' | 'user' | 'none';
+}
+
+/**
+ * A user's correction of the header match, keyed by the header text as shown in the file
+ * (trimmed): a field, or null to ignore the column.
+ */
+export type HeaderMapping = Readonly<Record<string, Field | null>>;
+
+export interface ImportOptions {
+  /** The table's name; default "table". */
+  readonly name?: string;
+  /** Where it came from (file name, range address). */
+  readonly origin?: string;
+  /** Header corrections. */
+  readonly mapping?: HeaderMapping;
+  /** Import time, ISO 8601; default now. */
+  readonly importedAt?: string;
+  /** For a worksheet range: the sheet row of the header (default 1) and the sheet column of the first cell (default 1), so messages name the cells the user sees. */
+  readonly firstRow?: number;
+  readonly firstColumn?: number;
+  /** Marks the table as the invented demo table. */
+  readonly demo?: boolean;
+}
+
+/**
+ * The outcome of reading a table: nothing is imported yet. `candidate` holds the table that
+ * acceptImport() turns into a VariationTable; it is present only when there are no errors.
+ */
+export interface ImportResult {
+  /** True when there are no errors (warnings may remain). */
+  readonly ok: boolean;
+  readonly problems: readonly Problem[];
+  readonly errorCount: number;
+  readonly warningCount: number;
+  readonly columns: readonly ColumnMapping[];
+  /** The separator found: ',', ';' or '\t' ('' for a worksheet range or an empty file). */
+  readonly delimiter: string;
+  /** Data rows read (blank lines not counted). */
+  readonly rowCount: number;
+  readonly candidate?: VariationTable;
+}
