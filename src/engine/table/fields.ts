@@ -16,7 +16,7 @@ export const HEADER_ALIASES: Readonly<Record<Field, readonly string[]>> = {
   cvg: ['cvb', 'cvbetween', 'betweensubjectcv', 'betweensubject', 'betweensubjectbiologicalvariation', 'interindividualcv', 'interindividual', 'cvinter', 'betweenpersoncv', 'bvbetween'],
   source: ['reference', 'ref', 'citation', 'datasource', 'sourceanddate', 'origin'],
   limit_abs: ['limitabsolute', 'absolutelimit', 'fixedlimitabs', 'fixedabs', 'teaabs', 'teaabsolute', 'abslimit', 'limitunits'],
-  limit_pct: ['limitpercent', 'percentlimit', 'limit', 'fixedlimitpct', 'fixedpct', 'teapct', 'teapercent', 'pctlimit', 'tea'],
+  limit_pct: ['limitpercent', 'percentlimit', 'limit', 'fixedlimitpct', 'fixedpct', 'teapct', 'teapercent', 'pctlimit'],
   level: ['decisionlevel', 'medicaldecisionlevel', 'concentration', 'leveltested'],
   note: ['notes', 'comment', 'comments', 'remark', 'remarks'],
 };
