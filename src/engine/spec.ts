@@ -17,7 +17,7 @@ export function allowableImprecision(cvi: number, tier: Tier): number {
 export function allowableBias(cvi: number, cvg: number, tier: Tier): number {
   nonNegative(cvi, 'cvi');
   nonNegative(cvg, 'cvg');
-  return BIAS_FACTOR[tier] * Math.hypot(cvi, cvg);
+  return BIAS_FACTOR[tier] * Math.sqrt(cvi * cvi + cvg * cvg);
 }
 
 /** SPEC.TOTAL: allowable total error = z·f·CVI + g·√(CVI² + CVG²). z ≥ 0 (default 1.65 at the wrapper). */
@@ -25,7 +25,7 @@ export function allowableTotalError(cvi: number, cvg: number, tier: Tier, z: num
   nonNegative(cvi, 'cvi');
   nonNegative(cvg, 'cvg');
   nonNegative(z, 'z');
-  return z * IMPRECISION_FACTOR[tier] * cvi + BIAS_FACTOR[tier] * Math.hypot(cvi, cvg);
+  return z * IMPRECISION_FACTOR[tier] * cvi + BIAS_FACTOR[tier] * Math.sqrt(cvi * cvi + cvg * cvg);
 }
 
 /**

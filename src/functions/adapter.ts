@@ -7,7 +7,7 @@ import { evaluate } from '../registry';
 import type { Arg } from '../registry';
 import type { ErrorCell, OutCell } from '../registry/types';
 
-type ExcelCell = number | string | CustomFunctions.Error;
+type ExcelCell = number | string | boolean | CustomFunctions.Error;
 
 function codeOf(e: ErrorCell): CustomFunctions.ErrorCode {
   switch (e.error) {
@@ -27,15 +27,15 @@ function toExcel(v: OutCell): ExcelCell {
   return new CustomFunctions.Error(codeOf(v), v.message);
 }
 
-/** Evaluates a registered function for Excel; never throws. */
+/** Evaluates a registered function for Excel; never throws. Error cells are replaced in place. */
 export function run(name: string, args: readonly Arg[]): ExcelCell[][] {
-  const out = evaluate(name, args);
-  const rows: ExcelCell[][] = new Array(out.length);
+  const out = evaluate(name, args) as unknown as ExcelCell[][];
   for (let r = 0; r < out.length; r++) {
-    const src = out[r];
-    const row: ExcelCell[] = new Array(src.length);
-    for (let c = 0; c < src.length; c++) row[c] = toExcel(src[c]);
-    rows[r] = row;
+    const row = out[r];
+    for (let c = 0; c < row.length; c++) {
+      const v = row[c];
+      if (typeof v === 'object') row[c] = toExcel(v as unknown as OutCell);
+    }
   }
-  return rows;
+  return out;
 }

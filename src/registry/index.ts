@@ -32,7 +32,7 @@ export function findFunction(name: string): FunctionDef | undefined {
 
 /** Evaluates a registered function; an unknown name is a #NAME?-like #VALUE! in the one cell. */
 export function evaluate(name: string, args: readonly Arg[]): Output {
-  const def = findFunction(name);
+  const def = BY_NAME.get(name) ?? findFunction(name);
   if (!def) return [[{ error: '#VALUE!', message: `unknown function ${name}` }]];
   return evaluateDef(def, args);
 }

@@ -12,6 +12,7 @@ export const optNum = (name: string, dflt: number | undefined): ParamDef => ({
   type: 'number',
   optional: true,
   default: dflt,
+  coercedDefault: dflt,
 });
 
 export const range = (name: string, optional = false): ParamDef => ({ name, type: 'range', optional });
@@ -22,6 +23,7 @@ export const word = <W>(name: string, read: (t: string) => W, dflt?: string): Pa
   read,
   optional: dflt !== undefined,
   default: dflt,
+  coercedDefault: dflt === undefined ? undefined : read(dflt),
 });
 
 export const TIER: ParamDef = word('tier', readTier, DEFAULT_TIER);

@@ -19,7 +19,8 @@ export interface ErrorCell {
   readonly message: string;
 }
 
-export type OutCell = number | string | ErrorCell;
+/** A result cell: a number, text, a logical (TRUE/FALSE, e.g. QC.PLAN's `Target met`) or an error. */
+export type OutCell = number | string | boolean | ErrorCell;
 
 /** Every result is a grid; a single value is [[value]]. */
 export type Output = OutCell[][];
@@ -33,6 +34,8 @@ export interface ParamDef<W = unknown> {
   readonly optional?: boolean;
   /** Used when an optional argument is omitted or its cell is blank. */
   readonly default?: number | string;
+  /** The default as the function receives it (a tier word already read, say); set by params.ts. */
+  readonly coercedDefault?: unknown;
   /** For word parameters: reads (and validates) the word; throws a #VALUE! LeewayError. */
   readonly read?: (text: string) => W;
   /** Optional domain check for number parameters, applied at coercion (throws a LeewayError). */
