@@ -1,0 +1,3 @@
+export { demoTable, demoData, DEMO_LAB, DEMO_ANALYSERS, DEMO_SEED, DEMO_SOURCE, REPLICATION_DAYS, REPLICATES_PER_DAY, EQA_SAMPLES, COMPARISON_SAMPLES, reportedDecimals } from './scenario';
+export type { DemoAnalyteData, EqaResult, PairedResult, ReplicateResult } from './scenario';
+export { DEMO_MARKER } from '../fill/caution';
