@@ -1,4 +1,4 @@
-import tQuantileRef = require('@stdlib/stats-base-dists-t-quantile');
+import tQuantileRef from '@stdlib/stats-base-dists-t-quantile';
 import { lnGamma, tCdf, tQuantile } from '../../../src/engine/data/studentT';
 import { mulberry32, relClose } from '../../support/prng';
 
