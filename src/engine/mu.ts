@@ -1,0 +1,38 @@
+/**
+ * Measurement uncertainty from the laboratory's own IQC and EQA/CRM data (MU family), the
+ * approach of Magnusson B et al., Nordtest Report TR 537, ed. 4 (2017) (cited from SPEC.md; the
+ * handbook itself was not at hand, its worked examples are checked second-hand in the tests):
+ * the within-laboratory reproducibility u(Rw) (from long-term IQC) and the uncertainty of the
+ * method and laboratory bias u(bias) (from EQA rounds or a reference material) are combined as
+ * u_c = √(u(Rw)² + u(bias)²), expanded with a coverage factor k (2 for about 95 %).
+ *
+ * Units: whatever single unit the caller is consistent in; usually percent (relative
+ * uncertainties), so 1.67 means 1.67 %.
+ */
+import { numError } from './errors';
+import { nonNegative, positive } from './guards';
+import { rootMeanSquare } from './data/describe';
+
+/**
+ * MU.BIAS: u(bias) = √(RMS(bias)² + u(Cref)²), RMS(bias) = √((1/n)·Σ biasᵢ²) over the n biases
+ * found (EQA rounds, or one CRM), u(Cref) the standard uncertainty of the assigned or certified
+ * values (Nordtest TR 537, bias from PT/EQA or CRM results). Biases signed; u(Cref) ≥ 0;
+ * at least one bias.
+ */
+export function biasUncertainty(biases: ArrayLike<number>, uRef: number): number {
+  if (biases.length === 0) throw numError('bias_values holds no numbers: enter at least one bias');
+  nonNegative(uRef, 'u_ref');
+  return Math.hypot(rootMeanSquare(biases), uRef);
+}
+
+/**
+ * MU.COMBINE: k·√(u(Rw)² + u(bias)²) (Nordtest TR 537): the combined standard uncertainty for
+ * k = 1, the expanded uncertainty for k = 2 (default at the worksheet, about 95 % coverage).
+ * u(Rw), u(bias) ≥ 0; k > 0.
+ */
+export function combinedUncertainty(uRw: number, uBias: number, k: number): number {
+  nonNegative(uRw, 'u_rw');
+  nonNegative(uBias, 'u_bias');
+  positive(k, 'k');
+  return k * Math.hypot(uRw, uBias);
+}
