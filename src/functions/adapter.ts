@@ -22,9 +22,16 @@ function codeOf(e: ErrorCell): CustomFunctions.ErrorCode {
   }
 }
 
+/**
+ * Excel shows a custom message only with #VALUE! and #N/A ("Handle and return errors from your
+ * custom function", Office Add-ins documentation); #NUM! and #DIV/0! go without one there. The
+ * CLI and the task pane show every message.
+ */
 function toExcel(v: OutCell): ExcelCell {
   if (typeof v !== 'object') return v;
-  return new CustomFunctions.Error(codeOf(v), v.message);
+  const code = codeOf(v);
+  if (v.error === '#VALUE!' || v.error === '#N/A') return new CustomFunctions.Error(code, v.message);
+  return new CustomFunctions.Error(code);
 }
 
 /** Evaluates a registered function for Excel; never throws. Error cells are replaced in place. */
