@@ -1,7 +1,41 @@
-/* Task pane entry (the task pane work builds the UI here). */
-import { CAUTION } from '../engine/caution';
+/**
+ * Task pane entry. Waits for Office, picks the workbook host (Excel, or none in a plain browser),
+ * the per-user storage for the table library, and mounts the pane.
+ *
+ * Test hook: a page may define `window.leewayTestHost` (a PaneHost) before this script runs; the
+ * pane then uses it instead of Excel. Only the workbook I/O is replaced: every view, the engine,
+ * the planner and the storage run as in Excel. The browser tests use this with a recording fake.
+ */
+import type { PaneHost } from './host';
+import { noWorkbookHost } from './host';
+import { excelPaneHost } from './excel/paneHost';
+import { defaultStore, TableLibrary } from './store';
+import { mountPane } from './app';
 
-Office.onReady(() => {
+declare global {
+  interface Window {
+    leewayTestHost?: PaneHost;
+    leewayPane?: Promise<unknown>;
+  }
+}
+
+function boot(hostKind: string | null): void {
   const app = document.getElementById('app');
-  if (app) app.textContent = CAUTION;
-});
+  if (!app) return;
+  const host =
+    window.leewayTestHost ??
+    (hostKind === 'Excel'
+      ? excelPaneHost()
+      : noWorkbookHost('Not inside Excel: the table library and what-if work; filling and reading sheets need Excel.'));
+  const g = window as unknown as Parameters<typeof defaultStore>[0];
+  const library = new TableLibrary(defaultStore(g));
+  window.leewayPane = mountPane(app, host, library).then(() => {
+    document.body.dataset.ready = 'true';
+  });
+}
+
+if (typeof Office !== 'undefined' && typeof Office.onReady === 'function') {
+  void Office.onReady((info) => boot(info && info.host ? String(info.host) : null));
+} else {
+  boot(null);
+}

@@ -1,0 +1,54 @@
+/**
+ * The real PaneHost: the other engineer's SheetIO (sheetio.ts) for the fill's reads and writes
+ * and the table import, the pane's own reads (read.ts), the tier-cell writer and the summary
+ * writer. Each method is one Excel.run.
+ */
+import type { PaneHost } from '../host';
+import { HostError } from '../host';
+import type { ExcelRun, SheetIO } from './sheetio';
+import { createSheetIO, FillWriteError } from './sheetio';
+import { readActiveContext, readActiveSheetGrid } from './read';
+import { writeTierCell } from './tierCell';
+import { writeSummarySheet } from './summary';
+
+function userMessage(e: unknown): Error {
+  if (e instanceof FillWriteError || e instanceof HostError) return e;
+  const err = e as { code?: string; message?: string; debugInfo?: { errorLocation?: string } };
+  const where = err?.debugInfo?.errorLocation ? ` (at ${err.debugInfo.errorLocation})` : '';
+  return new HostError(`Excel refused the request: ${err?.message ?? String(e)}${where}`);
+}
+
+async function guarded<T>(f: () => Promise<T>): Promise<T> {
+  try {
+    return await f();
+  } catch (e) {
+    throw userMessage(e);
+  }
+}
+
+export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: SheetIO = createSheetIO(run)): PaneHost {
+  return {
+    label: 'Excel',
+    available: true,
+    readSelection: () =>
+      guarded(async () => {
+        const r = await io.readSelection();
+        return { sheet: r.sheetName, address: r.address, firstRow: r.origin.row, firstColumn: r.origin.col, values: r.values };
+      }),
+    readActiveSheet: () => guarded(() => run((c) => readActiveSheetGrid(c))),
+    sheetNames: () => guarded(() => io.sheetNames()),
+    readTarget: () =>
+      guarded(async () => {
+        const active = await run((c) => readActiveContext(c));
+        const snapshot = await io.readUsed(active.sheet);
+        return { snapshot, selection: active.selection };
+      }),
+    writeFill: (plan) =>
+      guarded(async () => {
+        const r = await io.write(plan);
+        return { sheet: r.sheetName, cells: r.cellsWritten };
+      }),
+    setTierCell: (w) => guarded(() => run((c) => writeTierCell(c, w))),
+    writeSummary: (req) => guarded(() => run((c) => writeSummarySheet(c, req))),
+  };
+}

@@ -1,0 +1,114 @@
+/**
+ * The pane's narrow window onto the workbook. Every read and write the pane makes goes through
+ * one PaneHost; the real one (excelHost in excel/host.ts) calls Excel.run with one batch per
+ * task, and the browser tests hand in a fake that records what it was given. Nothing else in the
+ * pane touches the Excel or Office globals.
+ */
+import type { GridCell } from '../engine/table';
+import type { FillPlan, SheetSnapshot } from '../engine/fill';
+
+/** A rectangle of cell values as Excel reports them (row-major). */
+export interface CellGrid {
+  readonly sheet: string;
+  /** The address as Excel writes it, e.g. "Sheet1!B2:F14". */
+  readonly address: string;
+  /** 1-based sheet row and column of the top-left cell. */
+  readonly firstRow: number;
+  readonly firstColumn: number;
+  readonly values: GridCell[][];
+}
+
+/** The used range of the active sheet and the row of the active cell. */
+export interface ActiveSheet {
+  readonly grid: CellGrid;
+  /** 1-based sheet row of the active cell. */
+  readonly activeRow: number;
+}
+
+/** One summary row (issue 7): what the pane computed for one analyte. */
+export interface SummaryRow {
+  readonly analyte: string;
+  readonly specimen: string;
+  readonly tier: string;
+  readonly allowable: number | string;
+  readonly bias: number | string;
+  readonly cv: number | string;
+  readonly observedTotal: number | string;
+  readonly sigma: number | string;
+  readonly tierMet: string;
+  readonly rule: string;
+  readonly controls: number | string;
+  readonly runs: number | string;
+  readonly detection: number | string;
+  readonly falseRejection: number | string;
+}
+
+export interface SummaryRequest {
+  readonly sheetName: string;
+  readonly rows: readonly SummaryRow[];
+  /** Provenance and caution lines written above the table. */
+  readonly header: readonly string[];
+}
+
+export interface SummaryResult {
+  readonly sheet: string;
+  readonly tableAddress: string;
+  readonly chartSeriesAddress: string;
+}
+
+export interface TierCellWrite {
+  readonly sheet: string;
+  readonly cell: string;
+  readonly tier: string;
+}
+
+/** The active sheet as a fill target: its used range and where the selection is. */
+export interface TargetSheet {
+  readonly snapshot: SheetSnapshot;
+  /** 1-based top-left cell and size of the selection. */
+  readonly selection: { readonly row: number; readonly col: number; readonly rows: number; readonly cols: number; readonly address: string };
+}
+
+export interface FillOutcome {
+  readonly sheet: string;
+  /** Cells written. */
+  readonly cells: number;
+}
+
+export interface PaneHost {
+  /** Shown in the pane: "Excel", or why there is no workbook. */
+  readonly label: string;
+  /** False outside Excel: reads and writes are refused with a message. */
+  readonly available: boolean;
+  readSelection(): Promise<CellGrid>;
+  readActiveSheet(): Promise<ActiveSheet>;
+  /** Names of the workbook's sheets (to keep a new sheet's name unique). */
+  sheetNames(): Promise<string[]>;
+  /** The active sheet and selection, read before a fill into a range or template. */
+  readTarget(): Promise<TargetSheet>;
+  /** Executes a writable plan in one batch (the Excel writer). */
+  writeFill(plan: FillPlan): Promise<FillOutcome>;
+  setTierCell(w: TierCellWrite): Promise<void>;
+  writeSummary(req: SummaryRequest): Promise<SummaryResult>;
+}
+
+/** Raised when the host cannot do what was asked; the message is for the user. */
+export class HostError extends Error {}
+
+/** Outside Excel (a plain browser): the library and what-if work, the workbook does not. */
+export function noWorkbookHost(why: string): PaneHost {
+  const refuse = async (): Promise<never> => {
+    throw new HostError(`No workbook: ${why}`);
+  };
+  return {
+    label: why,
+    available: false,
+    readSelection: refuse,
+    readActiveSheet: refuse,
+    sheetNames: refuse,
+    readTarget: refuse,
+    writeFill: refuse,
+    setTierCell: refuse,
+    writeSummary: refuse,
+  };
+}

@@ -1,0 +1,135 @@
+/**
+ * The summary sheet's content (issue 7): one row per picked analyte with its tier, allowable
+ * total error at that tier, observed bias/CV/total error, sigma, the most stringent tier met and
+ * the QC.PLAN choice, all from the engine; and the provenance and caution lines above it.
+ * Pure, so the numbers can be checked without Excel.
+ */
+import type { VariationRow, VariationTable } from '../engine/table';
+import type { Tier } from '../engine/tiers';
+import { allowableTotalError } from '../engine/spec';
+import { observedTotalError, sigmaMetric, tierMet } from '../engine/perf';
+import { planQc } from '../engine/qc/plan';
+import { isLeewayError } from '../engine/errors';
+import { CAUTION, DEMO_MARKER } from '../engine/caution';
+import { VERSION } from '../engine/version';
+import type { SummaryRow } from './host';
+import type { Observed } from './state';
+import { displayName } from './analytes';
+
+/** Header texts of the summary table, in column order: the chart reads the first two. */
+export const SUMMARY_HEADERS = [
+  'Analyte',
+  'Sigma',
+  'Tier met',
+  'Tier',
+  'Allowable total error %',
+  'Bias %',
+  'CV %',
+  'Observed total error %',
+  'Rule',
+  'Controls per run',
+  'Runs',
+  'Detection',
+  'False rejection per run',
+  'Note',
+] as const;
+
+function why(e: unknown): string {
+  return isLeewayError(e) ? `${e.code} ${e.message}` : String(e);
+}
+
+export function summaryRow(r: VariationRow, tier: Tier, z: number, obs: Observed | undefined): SummaryRow {
+  const name = displayName(r);
+  const base = { analyte: name, specimen: r.specimen, tier };
+  let allowable: number | string;
+  try {
+    if (r.cvg === null) throw new Error('no CVG in the table');
+    allowable = allowableTotalError(r.cvi, r.cvg, tier, z);
+  } catch (e) {
+    allowable = e instanceof Error && !isLeewayError(e) ? e.message : why(e);
+  }
+  const none = { bias: '', cv: '', observedTotal: '', sigma: '', tierMet: 'no observed data', rule: '', controls: '', runs: '', detection: '', falseRejection: '' };
+  if (!obs) return { ...base, allowable, ...none };
+  let observedTotal: number | string;
+  try {
+    observedTotal = observedTotalError(obs.bias, obs.cv, z);
+  } catch (e) {
+    observedTotal = why(e);
+  }
+  let met: string;
+  try {
+    met = r.cvg === null ? 'no CVG in the table' : tierMet(r.cvi, r.cvg, obs.bias, obs.cv, z, 'total');
+  } catch (e) {
+    met = why(e);
+  }
+  if (typeof allowable !== 'number') {
+    return { ...base, allowable, ...none, bias: obs.bias, cv: obs.cv, observedTotal, tierMet: met };
+  }
+  let sigma: number | string;
+  try {
+    sigma = sigmaMetric(allowable, obs.bias, obs.cv);
+  } catch (e) {
+    sigma = why(e);
+  }
+  try {
+    const p = planQc(allowable, obs.bias, obs.cv);
+    return {
+      ...base,
+      allowable,
+      bias: obs.bias,
+      cv: obs.cv,
+      observedTotal,
+      sigma,
+      tierMet: met,
+      rule: p.targetMet ? p.rule : `${p.rule} (target not met)`,
+      controls: p.n,
+      runs: p.runs,
+      detection: p.detection,
+      falseRejection: p.falseRejectionPerRun,
+    };
+  } catch (e) {
+    return { ...base, allowable, bias: obs.bias, cv: obs.cv, observedTotal, sigma, tierMet: met, rule: why(e), controls: '', runs: '', detection: '', falseRejection: '' };
+  }
+}
+
+export function summaryHeader(table: VariationTable, sheetTier: Tier, z: number, date: string): string[] {
+  const lines = ['Leeway — summary: tier met, sigma metric and QC plan by analyte'];
+  if (table.demo) lines.push(DEMO_MARKER);
+  lines.push(
+    `Table: ${table.name} (${table.origin || 'origin not recorded'}, imported ${table.importedAt.slice(0, 10)})`,
+    `Sheet tier: ${sheetTier} (an analyte's own tier where one was chosen) · z = ${z} · QC plan: QC.PLAN, detection ≥ 0.90, false rejection per run ≤ 0.05, critical shift at z = 1.65`,
+    `Made on ${date} by Leeway ${VERSION} from the figures in the task pane (values, not formulas)`,
+    `Caution: ${CAUTION}`,
+  );
+  return lines;
+}
+
+/**
+ * Row values in SUMMARY_HEADERS order. A figure that could not be computed is left blank in its
+ * numeric column (so the chart shows a gap, not a zero) and its reason goes to the Note column.
+ */
+export function summaryCells(r: SummaryRow): Array<number | string> {
+  const notes: string[] = [];
+  const numeric = (v: number | string, what: string): number | string => {
+    if (typeof v === 'number' || v === '') return v;
+    notes.push(`${what}: ${v}`);
+    return '';
+  };
+  const row = [
+    r.analyte,
+    numeric(r.sigma, 'sigma'),
+    r.tierMet,
+    r.tier,
+    numeric(r.allowable, 'allowable total error'),
+    r.bias,
+    r.cv,
+    numeric(r.observedTotal, 'observed total error'),
+    r.rule,
+    r.controls,
+    r.runs,
+    r.detection,
+    r.falseRejection,
+  ];
+  row.push(notes.join('; '));
+  return row;
+}
