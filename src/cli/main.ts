@@ -6,6 +6,9 @@ import * as readline from 'readline';
 import { callFunction, CallResult, parseCliArg, UsageError } from './call';
 import { FUNCTIONS, NAMESPACE } from '../registry';
 import { VERSION } from '../engine/version';
+import { fillCommand, FILL_USAGE } from './fill';
+import { checkCommand, CHECK_USAGE } from './check';
+import { demoCommand, DEMO_USAGE } from './demo';
 
 const USAGE = `leeway ${VERSION} — laboratory quality specifications, performance, QC design and uncertainty
 
@@ -13,6 +16,9 @@ Usage:
   leeway call FUNCTION [ARG ...]   evaluate one worksheet function (with or without the ${NAMESPACE}. prefix)
   leeway call --lines              read ["FUNCTION", arg, ...] per line on stdin, write one JSON result per line
   leeway list                      list the worksheet functions and their parameters
+${FILL_USAGE}
+${CHECK_USAGE}
+${DEMO_USAGE}
   leeway help                      this text
 
 An ARG is a number, a word, or a JSON array for a range ([1,2,3] is a column, [[1,2],[3,4]] rows);
@@ -96,6 +102,9 @@ export const COMMANDS: Record<string, Command> = {
     if (args.length === 0) throw new UsageError('call needs a FUNCTION name');
     return printResult(callFunction(args[0], args.slice(1).map(parseCliArg)), io);
   },
+  fill: fillCommand,
+  check: checkCommand,
+  demo: demoCommand,
 };
 
 export async function main(argv: string[], io: Io = stdio): Promise<number> {
