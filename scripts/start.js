@@ -115,20 +115,22 @@ async function main() {
   const server = await serve(tls);
   const manifest = path.join(root, 'manifest.xml');
   say(`• serving the add-in at https://localhost:${port}/ (manifest: ${manifest})`);
+  const desktop = process.platform === 'win32' || process.platform === 'darwin';
+  if (!desktop) {
+    say(`• desktop Excel does not run on ${process.platform}: the add-in cannot be sideloaded automatically here.`);
+    say(sideloadHelp(manifest, tls));
+  }
   if (flag('--check')) {
     for (const line of await selfCheck(tls)) say(`  ${line}`);
     server.close();
     return;
   }
-  if (process.platform === 'win32' || process.platform === 'darwin') {
+  if (desktop) {
     say('• sideloading into desktop Excel (office-addin-debugging)');
     const child = spawn(process.execPath, [path.join(root, 'node_modules', 'office-addin-debugging', 'cli.js'), 'start', manifest, 'desktop', '--app', 'excel', '--no-debug', '--no-live-reload', '--dev-server-port', String(port)], { cwd: root, stdio: ['ignore', 'inherit', 'inherit'] });
     child.on('exit', (code) => {
       if (code) say(`  sideloading did not complete (exit ${code}).\n${sideloadHelp(manifest, tls)}`);
     });
-  } else {
-    say(`• desktop Excel does not run on ${process.platform}: the add-in cannot be sideloaded automatically here.`);
-    say(sideloadHelp(manifest, tls));
   }
   const stop = () => {
     say('\n• stopped serving.');
