@@ -19,7 +19,8 @@
  *   ∫ −∂H/∂a (a, a + R) da; −∂H/∂a is a sum over which observation is the lowest, computed by
  *   the same chain with one extra bit ("the lowest has been placed"). The integrand is smooth
  *   between the points a ∈ {b_k} ∪ {b_k − R}; it is integrated by 8-point Gauss–Legendre on
- *   pieces at most 0.75 SD wide over a ∈ [Δ − 7.5, Δ + 5] (the mass left out is below 1e-12).
+ *   pieces at most 0.75 SD wide over a ∈ [Δ − 7.5, Δ + 5] (the mass left out is below
+ *   n·Φ(−7.5) + Φ(−5)² < 4e-12 for n ≤ 100).
  *   Accuracy: agreement with a 24-point, 0.2 SD rule to about 1e-12 (test/engine/qc/power.test.ts);
  *   far inside the required ±0.005. Deterministic: no random numbers.
  * - Many runs: after each run the surviving state distribution is normalised; once it stops
