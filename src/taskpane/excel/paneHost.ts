@@ -10,6 +10,7 @@ import { createSheetIO, FillWriteError } from './sheetio';
 import { readActiveContext, readActiveSheetGrid } from './read';
 import { writeTierCell } from './tierCell';
 import { writeSummarySheet } from './summary';
+import { uniqueSheetName } from '../../engine/fill';
 
 function userMessage(e: unknown): Error {
   if (e instanceof FillWriteError || e instanceof HostError) return e;
@@ -49,6 +50,10 @@ export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: S
         return { sheet: r.sheetName, cells: r.cellsWritten };
       }),
     setTierCell: (w) => guarded(() => run((c) => writeTierCell(c, w))),
-    writeSummary: (req) => guarded(() => run((c) => writeSummarySheet(c, req))),
+    writeSummary: (req) =>
+      guarded(async () => {
+        const sheetName = uniqueSheetName(req.sheetName, await io.sheetNames());
+        return run((c) => writeSummarySheet(c, { ...req, sheetName }));
+      }),
   };
 }

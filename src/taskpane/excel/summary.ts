@@ -1,12 +1,12 @@
 /**
- * Writes the summary sheet (issue 7) and its chart of sigma by analyte, in one Excel.run with two
- * syncs whatever the number of analytes: one to learn the sheet names (so the new sheet's name is
- * unique), one for every write — the header lines, the whole table as one values array, formats
- * and the chart.
+ * Writes the summary sheet (issue 7) and its chart of sigma by analyte in one batch: a single
+ * sync whatever the number of analytes — the header lines, the whole table as one values array,
+ * one number-format array per numeric column, and the chart. The caller picks a sheet name not
+ * yet taken (paneHost.ts reads the names first).
  */
 import type { SummaryRequest, SummaryResult } from '../host';
 import { SUMMARY_HEADERS, summaryCells } from '../summaryRows';
-import { columnLetters, needsTextGuard, uniqueSheetName } from '../../engine/fill';
+import { columnLetters, needsTextGuard } from '../../engine/fill';
 
 /** Text that Excel's parser would not keep as that text goes in with a leading apostrophe. */
 export function cellValue(v: number | string): number | string {
@@ -24,11 +24,8 @@ const NUMBER_FORMATS: Readonly<Record<string, string>> = {
 };
 
 export async function writeSummarySheet(context: Excel.RequestContext, req: SummaryRequest): Promise<SummaryResult> {
-  const sheets = context.workbook.worksheets;
-  sheets.load('items/name');
-  await context.sync();
-  const name = uniqueSheetName(req.sheetName, sheets.items.map((s) => s.name));
-  const sheet = sheets.add(name);
+  const name = req.sheetName;
+  const sheet = context.workbook.worksheets.add(name);
 
   const top = req.header.length;
   sheet.getRange(`A1:A${top}`).values = req.header.map((l) => [cellValue(l)]);
