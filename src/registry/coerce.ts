@@ -35,14 +35,19 @@ export function toNumber(v: Scalar, name: string): number {
 
 /** A word from one cell: numbers and logicals #VALUE!, blank #N/A. */
 export function toWord(v: Scalar, name: string): string {
+  if (isBlank(v) || (typeof v === 'string' && v.trim() === '')) throw naError(`${name} is blank: enter a word`);
   if (typeof v === 'string') return v;
-  if (isBlank(v)) throw naError(`${name} is blank: enter a word`);
   throw valueError(`${name} must be a word (got ${describe(v)})`);
+}
+
+/** Blank for this parameter: an empty cell, or (for a word) text of spaces only. */
+export function isBlankFor(v: Scalar, p: ParamDef): boolean {
+  return isBlank(v) || (p.type === 'word' && typeof v === 'string' && v.trim() === '');
 }
 
 /** Coerces one cell for one parameter (defaults for blank optional cells). */
 export function coerceCell(v: Scalar, p: ParamDef): unknown {
-  if (p.optional && isBlank(v)) {
+  if (p.optional && isBlankFor(v, p)) {
     if (p.default === undefined) return undefined;
     return p.type === 'word' && p.read ? p.read(String(p.default)) : p.default;
   }

@@ -7,7 +7,7 @@
  * coerced once per parameter, not once per call.
  */
 import { LeewayError, valueError } from '../engine/errors';
-import { asGrid, coerceCell, errorCell } from './coerce';
+import { asGrid, coerceCell, errorCell, isBlankFor } from './coerce';
 import type { AggregateDef, Arg, ElementwiseDef, ErrorCell, FunctionDef, Grid, OutCell, Output, ParamDef, Scalar } from './types';
 
 const NOT_FINITE: ErrorCell = { error: '#NUM!', message: 'the result is not a finite number: an input is out of range' };
@@ -36,7 +36,7 @@ function defaultOf(p: ParamDef): unknown {
 /** Coerces one cell; a plain finite number for an unchecked number parameter is taken as it is. */
 function coerceOne(v: Scalar, p: ParamDef): unknown {
   if (typeof v === 'number' && p.type === 'number' && p.check === undefined && v - v === 0) return v;
-  if (p.optional && (v === null || v === undefined || v === '')) return defaultOf(p);
+  if (p.optional && isBlankFor(v, p)) return defaultOf(p);
   try {
     return coerceCell(v, p);
   } catch (e) {

@@ -131,3 +131,11 @@ describe('SPEC.md section 2 conventions through evaluate()', () => {
     expect(codeOf(evaluate('SPEC.CV', [1, 'des', 3]))).toBe('#VALUE!');
   });
 });
+
+describe('blank word cells', () => {
+  test('a blank text cell ("") in a required word parameter is #N/A, in an optional one the default', () => {
+    const rule = evaluate('QC.FALSEREJECT', [[['']], 1]);
+    expect(typeof rule[0][0] === 'object' && rule[0][0].error).toBe('#N/A');
+    expect(evaluate('SPEC.CV', [10, [['  ']]])).toEqual([[5]]);
+  });
+});
