@@ -13,7 +13,7 @@ import { UsageError } from './call';
 import type { Io } from './main';
 import { one, readOptions } from './options';
 import { writeWorkbookAtomically, today } from './files';
-import { printSetup, writePlan } from './xlsx';
+import { headerHeight, printSetup, writePlan } from './xlsx';
 import { evaluate, findFunction } from '../registry';
 import type { Arg } from '../registry';
 import type { OutCell } from '../registry/types';
@@ -37,6 +37,7 @@ type Value = number | string | boolean | null | { error: string };
 function show(v: OutCell | undefined): Value {
   if (v === undefined) return null;
   if (typeof v === 'object') return { error: v.error };
+  if (typeof v === 'boolean') return v ? 'yes' : 'no';
   return v;
 }
 
@@ -74,6 +75,7 @@ const colText = (xs: readonly string[]): string[][] => xs.map((x) => [x]);
 /** Writes rows onto a sheet with a cursor; the first rows of every sheet are the demo banner. */
 class SheetBuilder {
   row = 1;
+  readonly headers: Array<[number, string[]]> = [];
   constructor(readonly ws: ExcelJS.Worksheet) {}
 
   banner(title: string): void {
@@ -84,7 +86,7 @@ class SheetBuilder {
     d.value = DEMO_MARKER;
     d.font = { bold: true, color: { argb: 'FFC00000' } };
     this.ws.getCell(this.row++, 1).value = `${DEMO_LAB}: bringing ${DEMO_ANALYSERS.candidate} into service beside ${DEMO_ANALYSERS.current}. Leeway ${VERSION}.`;
-    for (const line of wrapText(CAUTION, 110)) {
+    for (const line of wrapText(CAUTION, 90)) {
       const c = this.ws.getCell(this.row++, 1);
       c.value = line;
       c.font = { italic: true };
@@ -94,10 +96,12 @@ class SheetBuilder {
 
   line(values: readonly Value[], opts: { bold?: boolean; formats?: readonly (string | undefined)[]; header?: boolean } = {}): number {
     const r = this.row++;
+    if (opts.header) this.headers.push([r, values.map((v) => (typeof v === 'string' ? v : ''))]);
     values.forEach((v, i) => {
       if (v === null) return;
       const cell = this.ws.getCell(r, i + 1);
       cell.value = v as ExcelJS.CellValue;
+      if (typeof v === 'string' && v.startsWith('=')) cell.alignment = { horizontal: 'left', indent: 1 };
       const f = opts.formats?.[i];
       if (f && typeof v === 'number') cell.numFmt = f;
       if (opts.bold || opts.header) cell.font = { bold: true };
@@ -115,8 +119,10 @@ class SheetBuilder {
     c.font = { italic: true, color: { argb: 'FF595959' } };
   }
 
+  /** Sets column widths, then the header rows' heights to fit their wrapped texts. */
   widths(ws: readonly number[]): void {
     ws.forEach((w, i) => (this.ws.getColumn(i + 1).width = w));
+    for (const [r, texts] of this.headers) this.ws.getRow(r).height = headerHeight(texts.map((t, i) => [t, ws[i] ?? 10] as const));
   }
 }
 
@@ -203,7 +209,7 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
   sum.note('Observed total error = |bias| + 1.65·CV (LEEWAY.PERF.TOTAL); sigma = (allowable − |bias|)/CV (LEEWAY.PERF.SIGMA); tier met by total error (LEEWAY.PERF.TIER);');
   sum.note('QC rule: the simplest candidate reaching 90 % detection of the critical shift with ≤ 5 % false rejection (LEEWAY.QC.PLAN). Details on the other sheets.');
   missingNote(sum, ['DATA.PRECISION', 'DATA.BIAS', 'QC.PLAN', 'MU.BIAS', 'MU.COMBINE']);
-  sum.widths([14, 10, 14, 10, 10, 12, 11, 8, 11, 18, 9, 6, 10, 9, 13]);
+  sum.widths([14, 10, 14, 10, 10, 12, 11, 8, 11, 24, 9, 6, 10, 8, 13]);
 
   // Specifications: the fill planner, exactly as leeway fill writes a new sheet.
   const specWs = wb.addWorksheet('Specifications');
@@ -238,6 +244,7 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
       const c = rep.ws.getCell(r, j + 1);
       c.value = v as ExcelJS.CellValue;
       if (formats[j] && typeof v === 'number') c.numFmt = formats[j]!;
+      if (typeof v === 'string' && v.startsWith('=')) c.alignment = { horizontal: 'left', indent: 1 };
     });
   });
   rep.ws.getCell(resultsHeaderRow + resultRows + 1, 1).value = missing(['DATA.PRECISION']).length ? 'LEEWAY.DATA.PRECISION is not in this build; the results are left empty.' : null;
@@ -267,6 +274,7 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
       const c = eqa.ws.getCell(r, j + 1);
       c.value = v as ExcelJS.CellValue;
       if (j >= 1 && j <= 3 && typeof v === 'number') c.numFmt = P2;
+      if (typeof v === 'string' && v.startsWith('=')) c.alignment = { horizontal: 'left', indent: 1 };
     });
   });
   eqa.widths([14, 12, 12, 14, 44]);
@@ -279,7 +287,7 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
   const cmpHeader = cmp.row - 1;
   cmp.row += figures.length + 1;
   cmp.line(['Raw data (invented)'], { bold: true });
-  cmp.line(['Analyte', 'Sample', 'x (analyser A)', 'y (analyser B)'], { header: true });
+  cmp.line(['Analyte', 'Sample', 'x: analyser A', 'y: analyser B'], { header: true });
   const cmpStart: number[] = [];
   for (const f of figures) {
     cmpStart.push(cmp.row);
@@ -296,9 +304,10 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
       const c = cmp.ws.getCell(r, j + 1);
       c.value = v as ExcelJS.CellValue;
       if (j >= 2 && j <= 9 && typeof v === 'number') c.numFmt = P3;
+      if (typeof v === 'string' && v.startsWith('=')) c.alignment = { horizontal: 'left', indent: 1 };
     });
   });
-  cmp.widths([14, 8, 8, 9, 9, 9, 10, 10, 10, 10, 60]);
+  cmp.widths([14, 8, 11, 11, 9, 10, 10, 10, 10, 10, 60]);
 
   // Performance against the desirable specification.
   const perf = new SheetBuilder(wb.addWorksheet('Performance'));
@@ -319,7 +328,7 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
   qc.row++;
   qc.note('=LEEWAY.QC.SHIFT(allowable, bias, cv); =LEEWAY.QC.PLAN(allowable, bias, cv): target detection 0.90 at the critical shift, false rejection per run ≤ 0.05.');
   missingNote(qc, ['QC.PLAN']);
-  qc.widths([14, 13, 9, 9, 8, 11, 20, 10, 7, 10, 12, 9]);
+  qc.widths([14, 13, 9, 9, 8, 11, 24, 10, 7, 10, 12, 9]);
 
   // Measurement uncertainty.
   const mu = new SheetBuilder(wb.addWorksheet('Uncertainty'));

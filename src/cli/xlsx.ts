@@ -95,7 +95,33 @@ export function writePlan(ws: ExcelJS.Worksheet, plan: FillPlan, progress?: Writ
     if (progress && ++i % 2000 === 0) progress(i, total);
   }
   for (const [col, width] of Object.entries(plan.columnWidths)) ws.getColumn(Number(col)).width = width;
+  const headers = plan.cells.filter((c) => c.role === 'header');
+  if (headers.length && plan.target === 'new-sheet') ws.getRow(plan.headerRow).height = headerHeight(headers.map((c) => [c.content.kind === 'text' ? c.content.text : '', plan.columnWidths[c.col] ?? 10]));
   progress?.(total, total);
+}
+
+/**
+ * Row height (points) for wrapped header texts: lines ≈ characters / (width − 1), 15 points a
+ * line, at most 4 lines. Spreadsheet programs do not all size rows of a written file themselves.
+ */
+export function headerHeight(cells: ReadonlyArray<readonly [string, number]>): number {
+  let lines = 1;
+  for (const [t, width] of cells) {
+    let n = 0;
+    let line = 0;
+    for (const word of t.split(/\s+/)) {
+      if (line === 0) {
+        n++;
+        line = word.length;
+      } else if (line + 1 + word.length <= width - 1) line += 1 + word.length;
+      else {
+        n++;
+        line = word.length;
+      }
+    }
+    lines = Math.max(lines, n);
+  }
+  return 15 * Math.min(lines, 4);
 }
 
 function existing(v: ExcelJS.CellValue): ExistingCell {

@@ -113,7 +113,7 @@ export const COMPARISON_SAMPLES = 40;
 export function reportedDecimals(level: number): number {
   if (level < 1) return 3;
   if (level < 10) return 2;
-  if (level < 100) return 1;
+  if (level < 1000) return 1;
   return 0;
 }
 

@@ -51,7 +51,8 @@ export const TITLE = 'Leeway — analytical performance specifications';
 /** Characters per line of the caution in the block. */
 const CAUTION_WIDTH = 95;
 
-const NEW_SHEET_ORDER: readonly FillField[] = ['analyte', 'specimen', 'unit', 'cvi', 'cvg', 'source', 'tier', 'spec_cv', 'spec_bias', 'spec_total', 'spec_mu'];
+/** New-sheet column order: inputs and results first; the long text columns (source, note) last, where their text can run on. */
+const NEW_SHEET_ORDER: readonly FillField[] = ['analyte', 'specimen', 'unit', 'cvi', 'cvg', 'tier', 'spec_cv', 'spec_bias', 'spec_total', 'spec_mu'];
 const LIMIT_FIELDS: readonly FillField[] = ['limit_abs', 'limit_pct', 'level', 'fixed_pct'];
 
 /** The inputs each derived column's formula reads. */
@@ -69,9 +70,9 @@ const WIDTHS: Partial<Record<FillField, number>> = {
   unit: 10,
   cvi: 8,
   cvg: 8,
-  source: 34,
-  tier: 13,
-  note: 30,
+  source: 28,
+  tier: 11,
+  note: 26,
   limit_abs: 11,
   limit_pct: 9,
   level: 9,
@@ -369,7 +370,7 @@ export function planFill(req: FillRequest): PlanResult {
 
   const columnWidths: Record<number, number> = {};
   if (req.target.kind === 'new-sheet') {
-    for (const c of layout.columns) columnWidths[c.col] = isDerived(c.field) ? 15 : WIDTHS[c.field] ?? 12;
+    for (const c of layout.columns) columnWidths[c.col] = isDerived(c.field) ? 12 : WIDTHS[c.field] ?? 12;
     columnWidths[labelCol] = Math.max(columnWidths[labelCol] ?? 0, 24);
   }
   const overwrite = req.overwrite ?? false;
@@ -443,6 +444,7 @@ function blockHeight(demo: boolean, derivedCount: number): number {
 function newSheetLayout(rows: readonly VariationRow[], demo: boolean): Layout {
   const fields: FillField[] = [...NEW_SHEET_ORDER];
   if (rows.some((r) => r.limitAbs !== null || r.limitPct !== null)) fields.push(...LIMIT_FIELDS);
+  fields.push('source');
   if (rows.some((r) => r.note !== '')) fields.push('note');
   const columns = fields.map((field, i) => ({ field, col: i + 1, letter: columnLetters(i + 1), header: COLUMN_HEADERS[field] }));
   const headerRow = 1 + blockHeight(demo, fields.filter(isDerived).length) + 1;

@@ -157,7 +157,7 @@ describe('Excel writer (office-addin-mock)', () => {
     expect(report.cellsWritten).toBe(plan.cells.length);
     for (const c of plan.cells) expect(sheet.get(c.address)).toEqual(excelInput(c.content));
     const te = plan.cells.find((c) => c.role === 'derived' && c.content.kind === 'formula' && c.content.formula.startsWith('=LEEWAY.SPEC.TOTAL'))!;
-    expect(sheet.get(te.address)).toBe(`=LEEWAY.SPEC.TOTAL(D${te.row},E${te.row},IF(G${te.row}="",${plan.tierCell},G${te.row}),${plan.zCell})`);
+    expect(sheet.get(te.address)).toBe(`=LEEWAY.SPEC.TOTAL(D${te.row},E${te.row},IF(F${te.row}="",${plan.tierCell},F${te.row}),${plan.zCell})`);
     expect(h.formats.get(te.address)).toBe('0.00');
     expect(sheet.get(plan.tierCell.replace(/\$/g, ''))).toBe('desirable');
     expect(h.notes.map(([a]) => a)).toEqual(plan.cells.filter((c) => c.note).map((c) => c.address));
