@@ -375,11 +375,14 @@ export function compareMethods(
 
 /**
  * Bias of y against x at the level X (a medical decision level, in the unit of the results):
- * units = a + (b − 1)·X, percent = 100·units/X. X ≥ 0 (#NUM!); X = 0 leaves the percent undefined
+ * units = a + (b − 1)·X, percent = 100·units/X. X ≥ 0 (#NUM!); at X = 0 the percent is null
  * (the caller reports #DIV/0! for it).
  */
-export function biasAtLevel(fit: Pick<LineFit, 'slope' | 'intercept'>, level: number): { units: number; percent: number } {
+export function biasAtLevel(
+  fit: Pick<LineFit, 'slope' | 'intercept'>,
+  level: number,
+): { units: number; percent: number | null } {
   nonNegative(level, 'level');
   const units = fit.intercept + (fit.slope - 1) * level;
-  return { units, percent: level === 0 ? NaN : (100 * units) / level };
+  return { units, percent: level === 0 ? null : (100 * units) / level };
 }

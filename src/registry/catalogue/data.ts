@@ -10,7 +10,14 @@
  */
 import { cvPercent, meanPercentBias, mean, rmsPercentBias, sampleCv } from '../../engine/data/describe';
 import { oneWayPrecision } from '../../engine/data/precision';
-import { CompareMethod, DEFAULT_COMPARE_METHOD, LineFit, compareMethods, readCompareMethod } from '../../engine/data/compare';
+import {
+  CompareMethod,
+  DEFAULT_COMPARE_METHOD,
+  LineFit,
+  biasAtLevel,
+  compareMethods,
+  readCompareMethod,
+} from '../../engine/data/compare';
 import { biasUncertainty, combinedUncertainty } from '../../engine/mu';
 import { LeewayError, divError, naError, valueError } from '../../engine/errors';
 import { nonNegative, positive } from '../../engine/guards';
@@ -185,11 +192,11 @@ export const DATA_FUNCTIONS: FunctionDef[] = [
       let biasUnits: OutCell = '';
       let biasPercent: OutCell = '';
       if (level !== undefined) {
-        const units = fit.intercept + (fit.slope - 1) * level;
-        biasUnits = cell(() => units);
+        const bias = biasAtLevel(fit, level);
+        biasUnits = cell(() => bias.units);
         biasPercent = cell(() => {
-          if (level === 0) throw divError('level is zero: the bias in percent divides by the level');
-          return (100 * units) / level;
+          if (bias.percent === null) throw divError('level is zero: the bias in percent divides by the level');
+          return bias.percent;
         });
       }
       return [

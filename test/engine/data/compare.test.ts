@@ -302,7 +302,8 @@ describe('shared rules of DATA.COMPARE', () => {
   test('bias at a level: intercept + (slope − 1)·level, and in percent of the level', () => {
     const b = biasAtLevel({ slope: 1.05, intercept: 0.125 }, 10);
     close(b.units, 0.625, 1e-14);
-    close(b.percent, 6.25, 1e-14);
+    close(b.percent as number, 6.25, 1e-14);
+    expect(biasAtLevel({ slope: 1.05, intercept: 0.125 }, 0)).toEqual({ units: 0.125, percent: null });
     expect(() => biasAtLevel({ slope: 1, intercept: 0 }, -1)).toThrow(expect.objectContaining({ code: '#NUM!' }));
   });
 });
