@@ -2,8 +2,8 @@
  * The task pane's Excel I/O behind one narrow interface. Every call is one Excel.run; a fill
  * loads what it needs in one sync (the target cells, to check that nothing changed since the
  * plan was made) and writes everything in one more: two syncs whatever the number of rows.
- * Writes are grouped into column runs, so the number of range objects grows with the columns,
- * not the rows. This file only executes a FillPlan; every decision is the planner's.
+ * Writes are grouped into column runs (null entries leave a cell as it is), so the number of
+ * range objects grows with the columns, not the rows. This file only executes a FillPlan; every decision is the planner's.
  */
 import type { CellContent, FillPlan, PlannedCell, SheetSnapshot, ExistingCell } from '../../engine/fill';
 import { a1Range, columnLetters, needsTextGuard } from '../../engine/fill';
@@ -76,29 +76,47 @@ function fromExcel(v: unknown): ExistingCell {
   return String(v);
 }
 
-/** Column runs: contiguous rows of one column with one number format and one role style. */
-export function columnRuns(cells: readonly PlannedCell[]): PlannedCell[][] {
-  const byCol = new Map<number, PlannedCell[]>();
+/**
+ * One rectangle of one column to write: `cells[i]` is the planned cell of row top + i, or null
+ * for a row the plan does not touch (Excel leaves a cell unchanged when its entry is null).
+ */
+export interface ColumnRun {
+  readonly col: number;
+  readonly top: number;
+  readonly cells: readonly (PlannedCell | null)[];
+}
+
+/**
+ * The plan's cells grouped into column runs. Unstyled cells of one column and one number format
+ * form one run from their first to their last row, gaps as nulls, so the number of ranges does
+ * not grow with the rows even when some rows leave a column blank. Styled cells (headers, the
+ * block) form runs of contiguous rows, so no style reaches a cell the plan does not write.
+ */
+export function columnRuns(cells: readonly PlannedCell[]): ColumnRun[] {
+  const groups = new Map<string, PlannedCell[]>();
   for (const c of cells) {
-    const list = byCol.get(c.col);
+    const styled = ROLE_STYLES[c.role] !== undefined;
+    const key = styled ? `${c.col}|s|${c.role}|${c.format ?? ''}` : `${c.col}|u|${c.format ?? ''}`;
+    const list = groups.get(key);
     if (list) list.push(c);
-    else byCol.set(c.col, [c]);
+    else groups.set(key, [c]);
   }
-  const runs: PlannedCell[][] = [];
-  for (const col of [...byCol.keys()].sort((a, b) => a - b)) {
-    const list = byCol.get(col)!.sort((a, b) => a.row - b.row);
-    let run: PlannedCell[] = [];
-    for (const c of list) {
-      const prev = run[run.length - 1];
-      if (prev && (c.row !== prev.row + 1 || c.format !== prev.format || ROLE_STYLES[c.role] !== ROLE_STYLES[prev.role])) {
-        runs.push(run);
-        run = [];
-      }
-      run.push(c);
+  const runs: ColumnRun[] = [];
+  for (const [key, list] of groups) {
+    list.sort((a, b) => a.row - b.row);
+    const styled = key.includes('|s|');
+    let start = 0;
+    for (let i = 1; i <= list.length; i++) {
+      if (i < list.length && (!styled || list[i].row === list[i - 1].row + 1)) continue;
+      const part = list.slice(start, i);
+      const top = part[0].row;
+      const span: (PlannedCell | null)[] = new Array(part[part.length - 1].row - top + 1).fill(null);
+      for (const c of part) span[c.row - top] = c;
+      runs.push({ col: part[0].col, top, cells: span });
+      start = i;
     }
-    if (run.length) runs.push(run);
   }
-  return runs;
+  return runs.sort((a, b) => a.col - b.col || a.top - b.top);
 }
 
 function bounds(cells: readonly PlannedCell[]): { top: number; left: number; bottom: number; right: number } {
@@ -188,11 +206,10 @@ export function createSheetIO(run: ExcelRun, options: SheetIOOptions = {}): Shee
         // Sync 2: everything else.
         context.application.suspendApiCalculationUntilNextSync();
         for (const run of columnRuns(plan.cells)) {
-          const first = run[0];
-          const last = run[run.length - 1];
-          const range = sheet.getRange(a1Range({ row: first.row, col: first.col }, { row: last.row, col: first.col }));
-          if (first.format !== undefined) range.numberFormat = run.map((c) => [c.format ?? 'General']);
-          range.formulas = run.map((c) => [excelInput(c.content)]);
+          const first = run.cells[0]!;
+          const range = sheet.getRange(a1Range({ row: run.top, col: run.col }, { row: run.top + run.cells.length - 1, col: run.col }));
+          if (first.format !== undefined) range.numberFormat = run.cells.map((c) => [c ? c.format ?? 'General' : null]) as string[][];
+          range.formulas = run.cells.map((c) => [c ? excelInput(c.content) : null]) as (string | number)[][];
           const style = ROLE_STYLES[first.role];
           if (style) {
             if (style.bold) range.format.font.bold = true;
