@@ -46,3 +46,6 @@ export function filterRows(rows: readonly VariationRow[], f: AnalyteFilter): Var
 export function displayName(r: Pick<VariationRow, 'analyte' | 'specimen'>): string {
   return r.specimen ? `${r.analyte} (${r.specimen})` : r.analyte;
 }
+
+/** A row key as an attribute value that a CSS selector can name (the key itself holds a NUL). */
+export const attrKey = (key: string): string => encodeURIComponent(key);

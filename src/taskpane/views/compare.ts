@@ -14,7 +14,7 @@ import type { Tier } from '../../engine/tiers';
 import { whatIf } from '../whatif';
 import type { WhatIfResult } from '../whatif';
 import { zOf } from '../state';
-import { keyOf, displayName } from '../analytes';
+import { keyOf, displayName, attrKey } from '../analytes';
 import { fmt, showFigure, tierLabel } from '../format';
 import { allowanceChart } from '../charts';
 import { readActiveRow, readAllRows } from '../sheetRows';
@@ -254,7 +254,7 @@ export function compareView(ctx: PaneContext): View {
       frag.appendChild(
         h(
           'tr',
-          { 'data-key': k },
+          { 'data-key': attrKey(k) },
           h('th', { scope: 'row' }, displayName(r)),
           h('td', {}, tierLabel(tier).slice(0, 3)),
           h('td', { 'data-col': 'total' }, showFigure(at.total)),

@@ -17,7 +17,7 @@ import type { FillField, FillMode, FillPlan, FillRequest, PlanResult, TemplateMa
 import type { TargetSheet } from '../host';
 import { zOf } from '../state';
 import type { CoverageMode } from '../state';
-import { filterRows, keyOf, displayName, specimensOf } from '../analytes';
+import { filterRows, keyOf, displayName, specimensOf, attrKey } from '../analytes';
 import { fmt, tierLabel } from '../format';
 import { DEMO_MARKER } from '../../engine/caution';
 
@@ -50,7 +50,6 @@ export function fillView(ctx: PaneContext): View {
   let mode: FillMode = 'live';
   let target: TargetSheet | null = null;
   let mapping: Record<string, FillField | null> = {};
-  let lastPlan: FillPlan | null = null;
   let overwrite = false;
 
   // ---- tiers and coverage -------------------------------------------------------------------
@@ -183,7 +182,7 @@ export function fillView(ctx: PaneContext): View {
     const frag = document.createDocumentFragment();
     for (const r of rows.slice(0, LIST_LIMIT)) {
       const k = keyOf(r);
-      const box = h('input', { type: 'checkbox', id: uid('pick'), 'data-key': k });
+      const box = h('input', { type: 'checkbox', id: uid('pick'), 'data-key': attrKey(k) });
       box.checked = state.selected.has(k);
       box.addEventListener('change', () => {
         if (box.checked) state.selected.add(k);
@@ -192,7 +191,7 @@ export function fillView(ctx: PaneContext): View {
         countLine.textContent = countText(rows.length);
         state.changed('selection');
       });
-      const tierSel = h('select', { 'aria-label': `Tier for ${displayName(r)}`, class: 'row-tier', 'data-key': k });
+      const tierSel = h('select', { 'aria-label': `Tier for ${displayName(r)}`, class: 'row-tier', 'data-key': attrKey(k) });
       tierSel.appendChild(h('option', { value: '' }, `sheet (${state.sheetTier.slice(0, 3)})`));
       for (const t of TIERS) tierSel.appendChild(h('option', { value: t }, tierLabel(t)));
       tierSel.value = state.analyteTier.get(k) ?? '';
@@ -269,7 +268,6 @@ export function fillView(ctx: PaneContext): View {
   }
 
   function invalidate(): void {
-    lastPlan = null;
     overwrite = false;
     replace(checkBox);
   }
@@ -303,6 +301,7 @@ export function fillView(ctx: PaneContext): View {
         target = await ctx.host.readTarget();
       }
       plan(sheetName);
+      checkBox.querySelector<HTMLElement>('#check-title, h2')?.focus();
     } catch (e) {
       ctx.status(e instanceof Error ? e.message : String(e), 'error');
     }
@@ -369,15 +368,13 @@ export function fillView(ctx: PaneContext): View {
   function renderCheck(res: PlanResult, sheetName: string): void {
     const mapBox = where !== 'new-sheet' && target ? mappingTable(target) : null;
     if (!res.ok) {
-      lastPlan = null;
       const ul = h('ul', { class: 'problems' });
       for (const p of res.problems) ul.appendChild(h('li', { class: 'problem error' }, h('span', { class: 'where' }, p.where || 'Fill'), h('span', { class: 'what' }, p.message)));
-      replace(checkBox, h('h2', {}, 'Cannot fill yet'), mapBox, ul);
+      replace(checkBox, h('h2', { tabindex: -1 }, 'Cannot fill yet'), mapBox, ul);
       ctx.status(`The fill cannot be planned: ${res.problems[0].message}.`, 'error');
       return;
     }
     const p = res.plan;
-    lastPlan = p;
     const conflictList = h('ul', { class: 'conflicts', id: 'conflicts' });
     for (const c of p.conflicts.slice(0, CONFLICT_LIMIT)) {
       conflictList.appendChild(h('li', { 'data-address': c.address }, h('span', { class: 'where' }, c.address), h('span', { class: 'what' }, `holds ${String(c.existing)}; would become ${c.planned}`)));
