@@ -371,7 +371,7 @@ export function planFill(req: FillRequest): PlanResult {
   const columnWidths: Record<number, number> = {};
   if (req.target.kind === 'new-sheet') {
     for (const c of layout.columns) columnWidths[c.col] = isDerived(c.field) ? 12 : WIDTHS[c.field] ?? 12;
-    columnWidths[labelCol] = Math.max(columnWidths[labelCol] ?? 0, 24);
+    columnWidths[labelCol] = Math.max(columnWidths[labelCol] ?? 0, 30);
   }
   const overwrite = req.overwrite ?? false;
   const plan: FillPlan = {
