@@ -78,7 +78,9 @@ function fromExcel(v: unknown): ExistingCell {
 
 /**
  * One rectangle of one column to write: `cells[i]` is the planned cell of row top + i, or null
- * for a row the plan does not touch (Excel leaves a cell unchanged when its entry is null).
+ * for a row the plan does not touch. Excel leaves a cell unchanged when its entry in a 2-D
+ * values, formulas or numberFormat array is null (Office Add-ins documentation, "Blank and null
+ * values in Excel add-ins").
  */
 export interface ColumnRun {
   readonly col: number;
