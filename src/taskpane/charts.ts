@@ -47,7 +47,7 @@ export function allowanceChart(bars: readonly AllowanceBar[], observed: number |
   const rowH = 26;
   const left = 78;
   const right = CHART_WIDTH - 12;
-  const top = 8;
+  const top = observed === null ? 8 : 20;
   const height = top + bars.length * rowH + 26;
   const maxV = niceCeil(Math.max(observed ?? 0, ...bars.map((b) => b.allowable)) * 1.05);
   const sc: Scale = { d0: 0, d1: maxV, p0: left, p1: right };
@@ -87,6 +87,10 @@ export function allowanceChart(bars: readonly AllowanceBar[], observed: number |
     svg.appendChild(
       s('line', { class: 'observed', x1: num(x), x2: num(x), y1: top - 4, y2: axisY, 'data-observed': String(observed) }),
     );
+    const anchor = x > CHART_WIDTH - 80 ? 'end' : 'start';
+    svg.appendChild(
+      s('text', { class: 'observed-label', x: num(anchor === 'end' ? x - 4 : x + 4), y: 12, 'text-anchor': anchor }, `observed ${formatFixed(observed, 2)}`),
+    );
   }
   svg.appendChild(s('text', { class: 'axis-title', x: CHART_WIDTH - 4, y: height - 1, 'text-anchor': 'end' }, 'total error, %'));
   return svg;
@@ -116,7 +120,7 @@ export interface CurveChartOptions {
 }
 
 export const CURVE_HEIGHT = 200;
-export const CURVE_PLOT = { left: 34, right: CHART_WIDTH - 8, top: 10, bottom: CURVE_HEIGHT - 30 } as const;
+export const CURVE_PLOT = { left: 42, right: CHART_WIDTH - 8, top: 18, bottom: CURVE_HEIGHT - 30 } as const;
 
 /** The scales of the curve chart, exported so tests can map plotted points back to numbers. */
 export function curveScales(xMax: number): { x: Scale; y: Scale } {
@@ -173,10 +177,12 @@ export function curveChart(series: readonly CurveSeries[], o: CurveChartOptions)
     svg.appendChild(
       s('line', { class: 'mark critical', x1: num(x), x2: num(x), y1: CURVE_PLOT.top, y2: CURVE_PLOT.bottom, 'data-value': String(o.xMark.value) }),
     );
-    const anchor = x > CHART_WIDTH - 70 ? 'end' : 'start';
-    svg.appendChild(s('text', { class: 'mark-label', x: num(anchor === 'end' ? x - 3 : x + 3), y: CURVE_PLOT.top + 9, 'text-anchor': anchor }, o.xMark.label));
+    const anchor = x < 60 ? 'start' : x > CHART_WIDTH - 50 ? 'end' : 'middle';
+    const lx = anchor === 'start' ? x - 2 : anchor === 'end' ? x + 2 : x;
+    svg.appendChild(s('text', { class: 'mark-label', x: num(lx), y: CURVE_PLOT.top - 6, 'text-anchor': anchor }, o.xMark.label));
   }
   svg.appendChild(s('text', { class: 'axis-title', x: CURVE_PLOT.right, y: CURVE_HEIGHT - 4, 'text-anchor': 'end' }, o.xLabel));
-  svg.appendChild(s('text', { class: 'axis-title', x: 2, y: 8 }, o.yLabel));
+  const mid = (CURVE_PLOT.top + CURVE_PLOT.bottom) / 2;
+  svg.appendChild(s('text', { class: 'axis-title', x: -mid, y: 10, transform: 'rotate(-90)', 'text-anchor': 'middle' }, o.yLabel));
   return svg;
 }

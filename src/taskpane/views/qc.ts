@@ -191,12 +191,17 @@ export function qcView(ctx: PaneContext): View {
     );
     const xMax = axisMax(plan.criticalShift);
     const candidates = QC_CANDIDATES.filter((c) => shown.has(candidateId(c)) || candidateId(c) === planId);
-    const series: CurveSeries[] = candidates.map((c, i) => {
+    // The plan always gets the first style (solid, the accent colour); the others follow.
+    let slot = 1;
+    const series: CurveSeries[] = candidates.map((c) => {
       const { xs, ys } = curveOf(c, xMax);
-      return { label: candidateLabel(c), xs, ys, style: i, emphasis: candidateId(c) === planId, data: { rule: c.rule, n: String(c.n), runs: String(c.runs) } };
+      const isPlan = candidateId(c) === planId;
+      return { label: candidateLabel(c), xs, ys, style: isPlan ? 0 : slot++, emphasis: isPlan, data: { rule: c.rule, n: String(c.n), runs: String(c.runs) } };
     });
     const legend = h('ul', { class: 'legend' });
     series.forEach((sr) => legend.appendChild(h('li', {}, h('span', { class: `swatch s${sr.style % 6}${sr.emphasis ? ' emphasis' : ''}`, 'aria-hidden': 'true' }), sr.label + (sr.emphasis ? ' (plan)' : ''))));
+    legend.appendChild(h('li', { class: 'marks' }, h('span', { class: 'swatch mark-critical', 'aria-hidden': 'true' }), `critical shift ${fmt(plan.criticalShift)} SD`));
+    legend.appendChild(h('li', { class: 'marks' }, h('span', { class: 'swatch mark-target', 'aria-hidden': 'true' }), `detection target ${fmt(target ?? DEFAULT_TARGET)}`));
     replace(
       chartBox,
       h('h3', {}, 'Power curves'),

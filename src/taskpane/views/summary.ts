@@ -15,6 +15,21 @@ import { DEMO_MARKER } from '../../engine/caution';
 
 const PREVIEW = 30;
 
+/** The plan as text with break opportunities after each "/" (long multirules in a narrow pane). */
+function planCell(r: SummaryRow): Array<Node | string> {
+  if (r.rule === '') return ['—'];
+  const notMet = r.rule.endsWith(' (target not met)');
+  const rule = notMet ? r.rule.slice(0, -' (target not met)'.length) : r.rule;
+  const out: Array<Node | string> = [];
+  rule.split('/').forEach((part, i, all) => {
+    out.push(i < all.length - 1 ? `${part}/` : part);
+    if (i < all.length - 1) out.push(h('wbr', {}));
+  });
+  out.push(`, n=${r.controls}${r.runs !== 1 && r.runs !== '' ? `, ${r.runs} runs` : ''}`);
+  if (notMet) out.push(h('span', { class: 'not-met' }, ' · target not met'));
+  return out;
+}
+
 export function summaryView(ctx: PaneContext): View {
   const { state } = ctx;
   const root = h('div', { class: 'view summary' });
@@ -61,7 +76,7 @@ export function summaryView(ctx: PaneContext): View {
           h('th', { scope: 'row' }, r.analyte),
           h('td', {}, typeof r.sigma === 'number' ? fmt(r.sigma) : '—'),
           h('td', {}, r.tierMet === 'none' || !['optimum', 'desirable', 'minimum'].includes(r.tierMet) ? r.tierMet : tierLabel(r.tierMet)),
-          h('td', { class: 'rule' }, r.rule === '' ? '—' : `${r.rule}, n=${r.controls}`),
+          h('td', { class: 'rule' }, ...planCell(r)),
         ),
       );
     }
