@@ -119,3 +119,35 @@ export function readAllRows(sheet: ActiveSheet): { ok: true; rows: SheetRowReadi
   }
   return { ok: true, rows, columns: cols };
 }
+
+/** The block label the fill planner writes beside a filled sheet's tier cell (src/engine/fill/plan.ts). */
+const TIER_LABEL = /^tier \(whole sheet\)$/i;
+const Z_LABEL = /^z \(coverage factor\)$/i;
+
+export interface FoundTierCell {
+  /** Absolute address, e.g. "$B$4". */
+  readonly tierCell: string;
+  readonly zCell: string | null;
+  /** What the tier cell holds now. */
+  readonly tier: string;
+}
+
+/**
+ * The tier cell of a sheet Leeway filled (in this session or an earlier one): the cell right of
+ * the label "Tier (whole sheet)"; the z cell likewise. Null when the sheet has no such label.
+ */
+export function findTierCell(sheet: ActiveSheet): FoundTierCell | null {
+  const g = sheet.grid;
+  let tier: FoundTierCell | null = null;
+  let z: string | null = null;
+  g.values.forEach((row, i) => {
+    row.forEach((v, j) => {
+      if (typeof v !== 'string') return;
+      const addr = `$${columnLetters(g.firstColumn + j + 1)}$${g.firstRow + i}`;
+      if (!tier && TIER_LABEL.test(v.trim())) tier = { tierCell: addr, zCell: null, tier: text(row[j + 1]) };
+      if (!z && Z_LABEL.test(v.trim())) z = addr;
+    });
+  });
+  if (!tier) return null;
+  return { ...(tier as FoundTierCell), zCell: z };
+}

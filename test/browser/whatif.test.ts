@@ -140,7 +140,23 @@ describeInBrowser('task pane: what-if', () => {
     const formulas = plan.cells.filter((c) => c.content.kind === 'formula' && /SPEC\.(CV|BIAS|TOTAL|MU)/.test(c.content.formula));
     expect(formulas.length).toBeGreaterThan(0);
     expect(formulas.every((c) => c.content.kind === 'formula' && c.content.formula.includes(plan.tierCell))).toBe(true);
+
     await context.close();
+
+    // In a later session (a new pane) the tier cell is found on the filled sheet by its label.
+    const later = await openPane(browser, server.url);
+    const page2 = later.page;
+    await page2.evaluate((pl) => (window as unknown as { leewayTestHost: { writeFill: (x: unknown) => Promise<unknown> } }).leewayTestHost.writeFill(pl), { ...plan, cells: plan.cells.map((c) => (c.address === plan.tierCell.replace(/\$/g, '') ? { ...c, content: { kind: 'text', text: 'optimum' } } : c)) });
+    await view(page2, 'compare');
+    expect(await page2.isDisabled('#apply-tier')).toBe(true);
+    await page2.click('#find-tier-cell');
+    await page2.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Found'));
+    expect(await page2.textContent('#tier-target')).toContain(`tier cell ${plan.tierCell} (now optimum)`);
+    await page2.check('#tier-cell input[value="minimum"]');
+    await page2.click('#apply-tier');
+    await page2.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').includes('now uses the minimum tier'));
+    expect(await lastCall(page2, 'setTierCell')).toEqual({ sheet: 'Specifications', cell: plan.tierCell, tier: 'minimum' });
+    await later.context.close();
   });
 
   test('the demo’s invented study results fill every demo analyte; the menu counts the tiers met', async () => {

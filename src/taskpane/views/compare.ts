@@ -17,7 +17,8 @@ import { zOf } from '../state';
 import { keyOf, displayName, attrKey } from '../analytes';
 import { fmt, showFigure, tierLabel } from '../format';
 import { allowanceChart } from '../charts';
-import { readActiveRow, readAllRows } from '../sheetRows';
+import { readActiveRow, readAllRows, findTierCell } from '../sheetRows';
+import { readTier } from '../../engine/tiers';
 import { DEMO_MARKER } from '../../engine/caution';
 import { demoObserved } from '../demo';
 
@@ -360,17 +361,44 @@ export function compareView(ctx: PaneContext): View {
         }
       })();
     });
+    const find = h('button', { type: 'button', id: 'find-tier-cell' }, 'Use the active sheet');
+    find.addEventListener('click', () => {
+      void (async () => {
+        try {
+          ctx.status('Looking for the tier cell on the active sheet…', 'busy');
+          const sheet = await ctx.host.readActiveSheet();
+          const found = findTierCell(sheet);
+          if (!found) {
+            ctx.status(`${sheet.grid.sheet} has no “Tier (whole sheet)” cell: it was not filled by Leeway, or the block was removed.`, 'error');
+            return;
+          }
+          let tier = state.sheetTier;
+          try {
+            tier = readTier(found.tier);
+          } catch {
+            /* the cell holds something else: keep the pane's tier */
+          }
+          state.filled = { sheet: sheet.grid.sheet, tierCell: found.tierCell, zCell: found.zCell ?? '', tier };
+          newTier = tier;
+          state.changed('filled');
+          renderTierBox();
+          ctx.status(`Found the tier cell of ${sheet.grid.sheet} at ${found.tierCell} (now “${found.tier}”).`, 'ok');
+        } catch (e) {
+          ctx.status(e instanceof Error ? e.message : String(e), 'error');
+        }
+      })();
+    });
     const name = uid('sheet-tier');
     replace(
       tierBox,
       h('h2', {}, 'Move the whole sheet'),
       f
-        ? h('p', { class: 'hint' }, `Last filled: ${f.sheet}, tier cell ${f.tierCell} (now ${f.tier}). Every formula on it reads that cell.`)
-        : h('p', { class: 'hint' }, 'Fill a sheet first (Fill): its formulas read one tier cell, which this sets.'),
+        ? h('p', { class: 'hint', id: 'tier-target' }, `Sheet ${f.sheet}, tier cell ${f.tierCell} (now ${f.tier}). Every formula on it reads that cell.`)
+        : h('p', { class: 'hint', id: 'tier-target' }, 'Fill a sheet first (Fill), or open a sheet Leeway filled and use it: its formulas read one tier cell, which this sets.'),
       radioGroup('New tier for the sheet', name, TIERS.map((t) => ({ value: t, label: tierLabel(t) })), newTier, (v) => {
         newTier = v;
       }),
-      h('div', { class: 'actions' }, apply),
+      h('div', { class: 'actions' }, apply, find),
     );
   }
 
