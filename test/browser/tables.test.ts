@@ -8,7 +8,8 @@ import * as fs from 'fs';
 import * as path from 'path';
 import type { Browser } from 'playwright-core';
 import { describeInBrowser, ensureBuild, serve, launch, openPane } from './harness';
-import { importFile, importAndAccept, view, TABLES, FIXTURES, setCells, setActive, screenshot, statusText } from './helpers';
+import { importFile, importAndAccept, view, TABLES, FIXTURES, setCells, setActive, screenshot, statusText, tempCsv } from './helpers';
+import { mulberry32, uniform } from '../support/prng';
 import { parseTableText, formatProblem } from '../../src/engine/table';
 import { DEMO_MARKER } from '../../src/engine/caution';
 
@@ -149,6 +150,69 @@ describeInBrowser('task pane: variation tables', () => {
     const first = await page.$eval('#problems li', (e) => [e.getAttribute('data-row'), e.getAttribute('data-column')]);
     expect(first).toEqual(['6', 'D']);
     expect(await page.isDisabled('#accept-import')).toBe(true);
+    await context.close();
+  });
+
+  test('a 5,000-row table is read and checked in under a second, and accepted into the library', async () => {
+    const { context, page } = await openPane(browser, server.url);
+    const rand = mulberry32(5000);
+    const lines = ['analyte;specimen;unit;cvi;cvg;source'];
+    for (let i = 0; i < 5000; i++) lines.push(`Invented ${i};serum;U/L;${uniform(rand, 1, 30).toFixed(2).replace('.', ',')};${uniform(rand, 1, 50).toFixed(2).replace('.', ',')};Invented for tests (2026-01)`);
+    await importFile(page, tempCsv('five-thousand.csv', '\uFEFF' + lines.join('\r\n')));
+    const ms = Number(await page.getAttribute('#review', 'data-check-ms'));
+    // eslint-disable-next-line no-console
+    console.log(`import check, 5,000 rows (semicolons, decimal commas, BOM): ${ms} ms`);
+    expect(ms).toBeLessThan(1000);
+    expect(await page.textContent('#report-summary')).toMatch(/^5000 data rows, 0 errors, 0 warnings · separator “;”/);
+    await page.click('#accept-import');
+    await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Imported'));
+    expect(await page.textContent('#table-name')).toBe('five-thousand · 5000 rows');
+    await context.close();
+  });
+
+  test('a 5 MB file with a problem every 100 rows: the report lists the first 200 and offers the rest, nothing is stored, the pane stays usable', async () => {
+    const { context, page } = await openPane(browser, server.url);
+    const lines = ['analyte,specimen,unit,cvi,cvg,source,note'];
+    const pad = 'x'.repeat(40);
+    let i = 0;
+    while (lines.reduce((n, l) => n + l.length + 1, 0) < 5 * 1024 * 1024) {
+      lines.push(`Invented ${i},serum,U/L,${i % 100 === 99 ? 'n/a' : 4.5},6.5,Invented for tests (2026-01),${pad}`);
+      i++;
+    }
+    const file = tempCsv('five-mb.csv', lines.join('\n'));
+    expect(fs.statSync(file).size).toBeGreaterThanOrEqual(5 * 1024 * 1024);
+    await importFile(page, file);
+    const expected = parseTableText(fs.readFileSync(file, 'utf8'));
+    expect(expected.errorCount).toBe(Math.floor(i / 100));
+    expect(await page.$$eval('#problems li', (e) => e.length)).toBe(200);
+    expect(await page.textContent('#review')).toContain(`Show all ${expected.problems.length} problems`);
+    expect(await page.isDisabled('#accept-import')).toBe(true);
+    // eslint-disable-next-line no-console
+    console.log(`import check, 5 MB (${i} rows): ${await page.getAttribute('#review', 'data-check-ms')} ms`);
+    // Still responsive: the tabs and the cancel button work at once.
+    await view(page, 'fill');
+    await view(page, 'library');
+    await page.click('#cancel-import');
+    expect(await statusText(page)).toBe('Import cancelled: nothing was imported.');
+    expect(await page.evaluate(() => localStorage.getItem('leeway.tables.v1'))).toBeNull();
+    await context.close();
+  });
+
+  test('the CSV corpus: each file gives the engine’s report in the pane and an empty file imports nothing', async () => {
+    const { context, page } = await openPane(browser, server.url);
+    for (const name of fs.readdirSync(TABLES).filter((f) => /\.(csv|tsv)$/.test(f)).sort()) {
+      const text = fs.readFileSync(path.join(TABLES, name), 'utf8');
+      const r = parseTableText(text);
+      await view(page, 'library');
+      if (await page.isVisible('#cancel-import')) await page.click('#cancel-import');
+      await page.setInputFiles('#import-file', path.join(TABLES, name));
+      await page.waitForSelector('#review:not([hidden]) #report-summary');
+      const plural = (n: number, w: string) => `${n} ${w}${n === 1 ? '' : 's'}`;
+      expect({ name, summary: (await page.textContent('#report-summary'))!.split(' · ')[0] }).toEqual({ name, summary: `${plural(r.rowCount, 'data row')}, ${plural(r.errorCount, 'error')}, ${plural(r.warningCount, 'warning')}` });
+      expect({ name, problems: await page.$$eval('#problems li', (e) => e.length) }).toEqual({ name, problems: Math.min(200, r.problems.length) });
+      expect({ name, enabled: await page.isEnabled('#accept-import') }).toEqual({ name, enabled: r.ok });
+    }
+    expect(await page.evaluate(() => localStorage.getItem('leeway.tables.v1'))).toBeNull();
     await context.close();
   });
 
