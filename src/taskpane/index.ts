@@ -9,17 +9,16 @@
 import type { PaneHost } from './host';
 import { noWorkbookHost } from './host';
 import { excelPaneHost } from './excel/paneHost';
-import { defaultStore, TableLibrary } from './store';
+import { chooseStore, TableLibrary } from './store';
 import { mountPane } from './app';
 
 declare global {
   interface Window {
     leewayTestHost?: PaneHost;
-    leewayPane?: Promise<unknown>;
   }
 }
 
-function boot(hostKind: string | null): void {
+async function boot(hostKind: string | null): Promise<void> {
   const app = document.getElementById('app');
   if (!app) return;
   const host =
@@ -27,15 +26,14 @@ function boot(hostKind: string | null): void {
     (hostKind === 'Excel'
       ? excelPaneHost()
       : noWorkbookHost('Not inside Excel: the table library and what-if work; filling and reading sheets need Excel.'));
-  const g = window as unknown as Parameters<typeof defaultStore>[0];
-  const library = new TableLibrary(defaultStore(g));
-  window.leewayPane = mountPane(app, host, library).then(() => {
-    document.body.dataset.ready = 'true';
-  });
+  const g = window as unknown as Parameters<typeof chooseStore>[0];
+  const library = new TableLibrary(await chooseStore(g));
+  await mountPane(app, host, library);
+  document.body.dataset.ready = 'true';
 }
 
 if (typeof Office !== 'undefined' && typeof Office.onReady === 'function') {
   void Office.onReady((info) => boot(info && info.host ? String(info.host) : null));
 } else {
-  boot(null);
+  void boot(null);
 }

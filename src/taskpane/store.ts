@@ -46,7 +46,26 @@ interface OfficeRuntimeStorage {
   removeItem(key: string): Promise<void>;
 }
 
-/** The best store this host offers: OfficeRuntime.storage, then localStorage, then memory only. */
+/**
+ * The best store this host offers, proven by a write and a read: OfficeRuntime.storage (where
+ * the host provides it and it answers), then localStorage, then memory only.
+ */
+export async function chooseStore(g: Parameters<typeof defaultStore>[0]): Promise<KeyValueStore> {
+  const first = defaultStore(g);
+  if (first.kind !== 'office-runtime') return first;
+  try {
+    const probe = '__leeway_probe__';
+    await first.setItem(probe, '1');
+    const back = await first.getItem(probe);
+    await first.removeItem(probe);
+    if (back === '1') return first;
+  } catch {
+    /* OfficeRuntime.storage is present but refuses (no shared runtime): fall back. */
+  }
+  return defaultStore({ localStorage: g.localStorage });
+}
+
+/** The first store this host offers (not yet proven): OfficeRuntime.storage, then localStorage, then memory only. */
 export function defaultStore(g: { OfficeRuntime?: { storage?: OfficeRuntimeStorage }; localStorage?: Storage }): KeyValueStore {
   const ors = g.OfficeRuntime?.storage;
   if (ors && typeof ors.getItem === 'function') {

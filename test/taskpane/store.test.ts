@@ -2,7 +2,7 @@
  * The per-user table library (src/taskpane/store.ts): tables kept between sessions with name,
  * source and import date; rename, delete; a full store says so instead of losing a table.
  */
-import { TableLibrary, memoryStore, localStore, defaultStore, uniqueName, LibraryError } from '../../src/taskpane/store';
+import { TableLibrary, memoryStore, localStore, defaultStore, chooseStore, uniqueName, LibraryError } from '../../src/taskpane/store';
 import type { KeyValueStore } from '../../src/taskpane/store';
 import { parseTableText, acceptImport } from '../../src/engine/table';
 import * as fs from 'fs';
@@ -85,6 +85,15 @@ describe('table library', () => {
     };
     expect(defaultStore({ localStorage: broken }).kind).toBe('memory');
     expect(defaultStore({}).kind).toBe('memory');
+  });
+
+  test('OfficeRuntime.storage that refuses (no shared runtime) falls back to localStorage', async () => {
+    const refusing = { getItem: async () => null, setItem: async () => Promise.reject(new Error('not available')), removeItem: async () => undefined };
+    expect((await chooseStore({ OfficeRuntime: { storage: refusing }, localStorage: fakeLocalStorage() })).kind).toBe('local-storage');
+    const items = new Map<string, string>();
+    const working = { getItem: async (k: string) => items.get(k) ?? null, setItem: async (k: string, v: string) => void items.set(k, v), removeItem: async (k: string) => void items.delete(k) };
+    expect((await chooseStore({ OfficeRuntime: { storage: working }, localStorage: fakeLocalStorage() })).kind).toBe('office-runtime');
+    expect(items.size).toBe(0);
   });
 
   test('an unreadable index is an empty library, not an exception', async () => {
