@@ -148,6 +148,14 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
     const { context, page, errors } = await openPane(browser, server.url, { realOffice: true });
     expect(await page.isVisible('#host-note')).toBe(true);
     expect(await page.textContent('#host-note')).toMatch(/^Not inside Excel/);
+    const timing = await page.evaluate(() => {
+      const fcp = performance.getEntriesByName('first-contentful-paint')[0];
+      const nav = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming;
+      return { fcp: fcp ? fcp.startTime : NaN, domContentLoaded: nav.domContentLoadedEventEnd };
+    });
+    // eslint-disable-next-line no-console
+    console.log(`first contentful paint ${timing.fcp.toFixed(0)} ms, DOMContentLoaded ${timing.domContentLoaded.toFixed(0)} ms (real office.js served with the add-in, localhost)`);
+    expect(timing.fcp).toBeLessThan(2000);
     expect(errors.filter((e) => e.startsWith('blocked request') || /Content Security Policy/i.test(e))).toEqual([]);
     // The library works without a workbook; a workbook action says why it cannot run.
     await view(page, 'library');
