@@ -5,4 +5,5 @@ module.exports = {
   testMatch: ['<rootDir>/test/**/*.test.ts'],
   moduleFileExtensions: ['ts', 'js', 'json'],
   testTimeout: 60000,
+  reporters: ['default', '<rootDir>/test/support/summary-reporter.js'],
 };

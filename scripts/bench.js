@@ -17,7 +17,12 @@ export { evaluate } from './src/registry';
 export { allowableTotalError } from './src/engine/spec';
 export { specTotal } from './src/functions/spec';
 export { leewaySheet } from './test/support/hyperformula';
-export * as qcPower from './src/engine/qc/power';
+export { clearQcCaches } from './src/engine/qc/power';
+export { parseTableText, acceptImport } from './src/engine/table';
+export { planFill } from './src/engine/fill';
+export { createSheetIO } from './src/taskpane/excel';
+export { harness } from './test/support/excel-harness';
+export { main } from './src/cli/main';
 `;
 const built = require('esbuild').buildSync({
   stdin: { contents: entry, resolveDir: root, loader: 'ts', sourcefile: 'bench-entry.ts' },
@@ -26,7 +31,7 @@ const built = require('esbuild').buildSync({
   target: 'node20',
   format: 'cjs',
   write: false,
-  external: ['exceljs', 'papaparse', 'decimal.js', 'hyperformula'],
+  external: ['exceljs', 'papaparse', 'decimal.js', 'hyperformula', 'office-addin-mock'],
   logLevel: 'error',
 });
 const m = new Module(path.join(root, 'bench-entry.js'));
@@ -70,6 +75,7 @@ function seeded(seed) {
 
 const rows = [];
 const out = {};
+async function run() {
 function record(key, label, value, spread, target, unit = '') {
   out[key] = Number(value.toPrecision(4));
   rows.push({ key, label, value, spread, target, unit });
@@ -145,6 +151,130 @@ const cvg = new Float64Array(N);
   ratio('wrapper_range_ratio', 'worksheet wrapper / engine, one 200,000-row range per call', wrapRange, engRange, '(info)');
 }
 
+// --- QC design: one multirule QC.DETECT cold (caches emptied, code warm) and cached; one QC.PLAN cold
+{
+  const rule = '1-3s/2-2s/R-4s/4-1s/10-x';
+  for (let i = 0; i < 5; i++) {
+    L.clearQcCaches();
+    L.evaluate('QC.PLAN', [8 + i, 1, 2]);
+  }
+  let k = 0;
+  const cold = measure(() => {
+    L.clearQcCaches();
+    L.evaluate('QC.DETECT', [rule, 2, 1.5 + 0.01 * k++, 5]);
+  }, { runs: 15 });
+  L.evaluate('QC.DETECT', [rule, 2, 1.5, 5]);
+  const cachedBatch = measure(() => {
+    for (let j = 0; j < 10000; j++) L.evaluate('QC.DETECT', [rule, 2, 1.5, 5]);
+  });
+  const per = (t) => ({ median: t.median / 10000, min: t.min / 10000, max: t.max / 10000 });
+  timing('detect_cold_ms', 'QC.DETECT ' + rule + ', n 2, 5 runs, cold caches', cold, '≤ 20');
+  timing('detect_cached_ms', 'QC.DETECT, the same call cached', per(cachedBatch), '≤ 0.1');
+  let p = 0;
+  const plan = measure(() => {
+    L.clearQcCaches();
+    L.evaluate('QC.PLAN', [2.9 + 0.01 * p++, 0.2, 1]); // sigma 2.7: every candidate computed
+  }, { runs: 9 });
+  timing('plan_cold_ms', 'QC.PLAN cold, sigma 2.7 (every candidate computed)', plan, '≤ 250');
+  const rand = seeded(4242);
+  const sheet = Array.from({ length: 300 }, () => [3 + 27 * rand(), -2 + 4 * rand(), 0.5 + 5.5 * rand()]);
+  const plans300 = measure(() => {
+    L.clearQcCaches();
+    for (const r of sheet) L.evaluate('QC.PLAN', r);
+  }, { runs: 3, warmup: 1 });
+  timing('plan_300_ms', 'QC.PLAN for 300 invented analytes, cold caches', plans300, 'seconds');
+}
+
+// --- DATA: Passing–Bablok on 1,000 pairs (499,500 slopes); ANOVA on NIST SmLs03 (18,009 results)
+{
+  const rand = seeded(3);
+  const x = [];
+  const y = [];
+  for (let i = 0; i < 1000; i++) {
+    const t = 1 + 99 * rand();
+    x.push([t + rand()]);
+    y.push([1.02 * t + 0.5 + 2 * (rand() - 0.5)]);
+  }
+  const pb = measure(() => {
+    const out = L.evaluate('DATA.COMPARE', [x, y]);
+    if (typeof out[1][0] !== 'number') throw new Error('DATA.COMPARE failed');
+  }, { runs: 7 });
+  timing('pb_1000_ms', 'DATA.COMPARE Passing–Bablok, 1,000 pairs', pb, '≤ 500');
+  const lines = fs.readFileSync(path.join(root, 'test', 'fixtures', 'nist-strd', 'SmLs03.dat'), 'utf8').split(/\r?\n/).slice(60);
+  const values = [];
+  const groups = [];
+  for (const l of lines) {
+    const f = l.trim().split(/\s+/).map(Number);
+    if (f.length === 2 && f.every(Number.isFinite)) {
+      groups.push([f[0]]);
+      values.push([f[1]]);
+    }
+  }
+  const anova = measure(() => L.evaluate('DATA.PRECISION', [values, groups]), { runs: 9 });
+  timing('anova_smls03_ms', `DATA.PRECISION on NIST SmLs03 (${values.length} results)`, anova, 'ms');
+}
+
+// --- Filling: a 1,000-analyte fill planned and written through the mocked Excel layer
+// (office-addin-mock, test/support/excel-harness.ts), its sync counts for 10 and 1,000 rows,
+// and leeway fill of 1,000 analytes into a new .xlsx; import + validate of 5,000 rows.
+{
+  const csv = (n, seed) => {
+    const rand = seeded(seed);
+    const lines = ['analyte;specimen;unit;cvi;cvg;source;limit_abs;limit_pct;level;note'];
+    for (let i = 0; i < n; i++) {
+      const cvi = (0.5 + rand() * 30).toFixed(2).replace('.', ',');
+      const cvg = (1 + rand() * 50).toFixed(2).replace('.', ',');
+      lines.push(`Invented analyte ${i};serum;mmol/L;${cvi};${cvg};"Invented for the benchmark; 2026-01";;;;`);
+    }
+    return lines.join('\r\n') + '\r\n';
+  };
+  const text5000 = csv(5000, 1);
+  const imp = measure(() => {
+    if (!L.parseTableText(text5000).ok) throw new Error('bench table has errors');
+  }, { runs: 5 });
+  timing('import_5000_ms', 'import + validate a 5,000-row table', imp, '< 1000');
+  const plan = (n) => {
+    const table = L.acceptImport(L.parseTableText(csv(n, 2), { name: 'bench.csv', origin: 'bench.csv' }));
+    const r = L.planFill({ table, tier: 'desirable', z: 1.65, mode: 'live', target: { kind: 'new-sheet', sheetName: 'S' + n }, date: '2026-12-02' });
+    if (!r.ok) throw new Error('plan failed');
+    return r.plan;
+  };
+  const syncsFor = async (n) => {
+    const h = L.harness();
+    await L.createSheetIO(h.run).write(plan(n));
+    return h.syncs();
+  };
+  out.fill_syncs_10 = await syncsFor(10);
+  out.fill_syncs_1000 = await syncsFor(1000);
+  const fillTimes = [];
+  for (let i = 0; i < 6; i++) {
+    const t0 = performance.now();
+    const h = L.harness();
+    await L.createSheetIO(h.run).write(plan(1000));
+    fillTimes.push(performance.now() - t0);
+  }
+  fillTimes.shift();
+  fillTimes.sort((a, b) => a - b);
+  timing('fill_1000_ms', 'plan + write 1,000 analytes through the mocked Excel layer', { median: fillTimes[2], min: fillTimes[0], max: fillTimes[4] }, '—');
+  rows.push({ key: 'fill_syncs', label: 'context.sync() calls for a fill of 10 / 1,000 rows', value: out.fill_syncs_1000, spread: `${out.fill_syncs_10} / ${out.fill_syncs_1000}`, target: '= , ≤ 3', unit: '' });
+  const dir = fs.mkdtempSync(path.join(require('os').tmpdir(), 'leeway-bench-'));
+  const file = path.join(dir, 'bench.csv');
+  fs.writeFileSync(file, csv(1000, 2));
+  const quiet = { out: () => undefined, err: (s) => process.stderr.write(s + '\n') };
+  let k = 0;
+  const xl = [];
+  for (let i = 0; i < 6; i++) {
+    const t0 = performance.now();
+    const code = await L.main(['fill', '--table', file, '--out', path.join(dir, `o${k++}.xlsx`)], quiet);
+    if (code !== 0) throw new Error(`leeway fill exited ${code}`);
+    xl.push(performance.now() - t0);
+  }
+  xl.shift();
+  xl.sort((a, b) => a - b);
+  timing('xlsx_fill_1000_ms', 'leeway fill, 1,000 analytes into a new .xlsx (in-process)', { median: xl[2], min: xl[0], max: xl[4] }, '≤ 3000');
+  fs.rmSync(dir, { recursive: true, force: true });
+}
+
 // --- bundle sizes (minified, without office.js)
 {
   const dist = path.join(root, 'dist', 'addin');
@@ -163,3 +293,9 @@ if (json) {
     console.log(`${r.label.padEnd(w)}  ${r.key.padEnd(20)} ${(r.value.toPrecision(4) + r.unit).padStart(10)}  target ${String(r.target).padEnd(7)} ${r.spread}`);
   }
 }
+}
+
+run().catch((e) => {
+  console.error(e);
+  process.exitCode = 1;
+});

@@ -3,9 +3,9 @@
  * each ErrorCell becomes a CustomFunctions.Error with Excel's code and our message.
  * Only this file touches the CustomFunctions global.
  */
-import { evaluate } from '../registry';
+import { compiledFunction } from '../registry';
 import type { Arg } from '../registry';
-import type { ErrorCell, OutCell } from '../registry/types';
+import type { ErrorCell } from '../registry/types';
 
 type ExcelCell = number | string | boolean | CustomFunctions.Error;
 
@@ -27,22 +27,20 @@ function codeOf(e: ErrorCell): CustomFunctions.ErrorCode {
  * custom function", Office Add-ins documentation); #NUM! and #DIV/0! go without one there. The
  * CLI and the task pane show every message.
  */
-function toExcel(v: OutCell): ExcelCell {
-  if (typeof v !== 'object') return v;
+function toExcel(v: ErrorCell): ExcelCell {
   const code = codeOf(v);
   if (v.error === '#VALUE!' || v.error === '#N/A') return new CustomFunctions.Error(code, v.message);
   return new CustomFunctions.Error(code);
 }
 
-/** Evaluates a registered function for Excel; never throws. Error cells are replaced in place. */
-export function run(name: string, args: readonly Arg[]): ExcelCell[][] {
-  const out = evaluate(name, args) as unknown as ExcelCell[][];
-  for (let r = 0; r < out.length; r++) {
-    const row = out[r];
-    for (let c = 0; c < row.length; c++) {
-      const v = row[c];
-      if (typeof v === 'object') row[c] = toExcel(v as unknown as OutCell);
-    }
-  }
-  return out;
+export type Wrapper = (a0?: Arg, a1?: Arg, a2?: Arg, a3?: Arg, rest?: readonly Arg[]) => ExcelCell[][];
+
+/**
+ * Binds a registered function once, when the functions file loads: its compiled evaluator, with
+ * error cells made CustomFunctions.Error as they arise, so a call goes straight to the engine.
+ */
+export function bind(name: string): Wrapper {
+  const evaluator = compiledFunction(name, toExcel);
+  if (!evaluator) throw new Error(`Leeway: no worksheet function ${name} in the registry`);
+  return evaluator.at as unknown as Wrapper;
 }

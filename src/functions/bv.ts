@@ -1,7 +1,12 @@
 /*
  * Worksheet wrappers, BV family (see spec.ts for the conventions).
  */
-import { run } from './adapter';
+import { bind } from './adapter';
+
+const BV_RCV = bind('BV.RCV');
+const BV_RCVLOG = bind('BV.RCVLOG');
+const BV_INDIVIDUALITY = bind('BV.INDIVIDUALITY');
+const BV_SETPOINT = bind('BV.SETPOINT');
 
 
 /**
@@ -13,7 +18,7 @@ import { run } from './adapter';
  * @returns {any[][]} RCV, %.
  */
 export function bvRcv(cv: any[][], cvi: any[][], z?: any[][]): any[][] {
-  return run('BV.RCV', [cv, cvi, z]);
+  return BV_RCV(cv, cvi, z);
 }
 
 /**
@@ -26,7 +31,7 @@ export function bvRcv(cv: any[][], cvi: any[][], z?: any[][]): any[][] {
  * @returns {any[][]} RCV, % (negative for "down").
  */
 export function bvRcvLog(cv: any[][], cvi: any[][], z?: any[][], direction?: any[][]): any[][] {
-  return run('BV.RCVLOG', [cv, cvi, z, direction]);
+  return BV_RCVLOG(cv, cvi, z, direction);
 }
 
 /**
@@ -38,7 +43,7 @@ export function bvRcvLog(cv: any[][], cvi: any[][], z?: any[][], direction?: any
  * @returns {any[][]} Index of individuality.
  */
 export function bvIndividuality(cvi: any[][], cvg: any[][], cv?: any[][]): any[][] {
-  return run('BV.INDIVIDUALITY', [cvi, cvg, cv]);
+  return BV_INDIVIDUALITY(cvi, cvg, cv);
 }
 
 /**
@@ -51,5 +56,5 @@ export function bvIndividuality(cvi: any[][], cvg: any[][], cv?: any[][]): any[]
  * @returns {any[][]} Number of specimens.
  */
 export function bvSetpoint(cv: any[][], cvi: any[][], closeness: any[][], z?: any[][]): any[][] {
-  return run('BV.SETPOINT', [cv, cvi, closeness, z]);
+  return BV_SETPOINT(cv, cvi, closeness, z);
 }

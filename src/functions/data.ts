@@ -4,7 +4,15 @@
  * generated from it at build time). The generator needs the literal type any[][] in each
  * signature; the registry validates every cell.
  */
-import { run } from './adapter';
+import { bind } from './adapter';
+
+const DATA_CV = bind('DATA.CV');
+const DATA_BIAS = bind('DATA.BIAS');
+const DATA_RMSBIAS = bind('DATA.RMSBIAS');
+const DATA_PRECISION = bind('DATA.PRECISION');
+const DATA_COMPARE = bind('DATA.COMPARE');
+const MU_BIAS = bind('MU.BIAS');
+const MU_COMBINE = bind('MU.COMBINE');
 
 /**
  * Sample CV of the numbers in a range: 100 × SD / mean, SD with n − 1. Text and blanks are ignored; fewer than 2 numbers give #NUM!, a zero mean #DIV/0!. Percent. Common practice (CLSI EP15-A3); two-pass arithmetic, checked on the NIST StRD univariate data sets.
@@ -13,7 +21,7 @@ import { run } from './adapter';
  * @returns {any[][]} CV, %.
  */
 export function dataCv(values: any[][]): any[][] {
-  return run('DATA.CV', [values]);
+  return DATA_CV(values);
 }
 
 /**
@@ -24,7 +32,7 @@ export function dataCv(values: any[][]): any[][] {
  * @returns {any[][]} Mean bias, %.
  */
 export function dataBias(results: any[][], targets: any[][]): any[][] {
-  return run('DATA.BIAS', [results, targets]);
+  return DATA_BIAS(results, targets);
 }
 
 /**
@@ -35,7 +43,7 @@ export function dataBias(results: any[][], targets: any[][]): any[][] {
  * @returns {any[][]} RMS bias, %.
  */
 export function dataRmsBias(results: any[][], targets: any[][]): any[][] {
-  return run('DATA.RMSBIAS', [results, targets]);
+  return DATA_RMSBIAS(results, targets);
 }
 
 /**
@@ -46,7 +54,7 @@ export function dataRmsBias(results: any[][], targets: any[][]): any[][] {
  * @returns {any[][]} Labelled precision estimates.
  */
 export function dataPrecision(values: any[][], groups: any[][]): any[][] {
-  return run('DATA.PRECISION', [values, groups]);
+  return DATA_PRECISION(values, groups);
 }
 
 /**
@@ -60,7 +68,7 @@ export function dataPrecision(values: any[][], groups: any[][]): any[][] {
  * @returns {any[][]} Labelled slope, intercept, 95 % intervals and bias.
  */
 export function dataCompare(x: any[][], y: any[][], method?: any[][], level?: any[][], ratio?: any[][]): any[][] {
-  return run('DATA.COMPARE', [x, y, method, level, ratio]);
+  return DATA_COMPARE(x, y, method, level, [ratio]);
 }
 
 /**
@@ -71,7 +79,7 @@ export function dataCompare(x: any[][], y: any[][], method?: any[][], level?: an
  * @returns {any[][]} u(bias), %.
  */
 export function muBias(bias_values: any[][], u_ref: any[][]): any[][] {
-  return run('MU.BIAS', [bias_values, u_ref]);
+  return MU_BIAS(bias_values, u_ref);
 }
 
 /**
@@ -83,5 +91,5 @@ export function muBias(bias_values: any[][], u_ref: any[][]): any[][] {
  * @returns {any[][]} Expanded (or combined) uncertainty, %.
  */
 export function muCombine(u_rw: any[][], u_bias: any[][], k?: any[][]): any[][] {
-  return run('MU.COMBINE', [u_rw, u_bias, k]);
+  return MU_COMBINE(u_rw, u_bias, k);
 }

@@ -1,7 +1,13 @@
 /*
  * Worksheet wrappers, PERF family and QC.SHIFT (see spec.ts for the conventions).
  */
-import { run } from './adapter';
+import { bind } from './adapter';
+
+const PERF_TOTAL = bind('PERF.TOTAL');
+const PERF_SIGMA = bind('PERF.SIGMA');
+const PERF_SHARE = bind('PERF.SHARE');
+const PERF_TIER = bind('PERF.TIER');
+const QC_SHIFT = bind('QC.SHIFT');
 
 
 /**
@@ -13,7 +19,7 @@ import { run } from './adapter';
  * @returns {any[][]} Observed total error, %.
  */
 export function perfTotal(bias: any[][], cv: any[][], z?: any[][]): any[][] {
-  return run('PERF.TOTAL', [bias, cv, z]);
+  return PERF_TOTAL(bias, cv, z);
 }
 
 /**
@@ -25,7 +31,7 @@ export function perfTotal(bias: any[][], cv: any[][], z?: any[][]): any[][] {
  * @returns {any[][]} Sigma metric.
  */
 export function perfSigma(allowable: any[][], bias: any[][], cv: any[][]): any[][] {
-  return run('PERF.SIGMA', [allowable, bias, cv]);
+  return PERF_SIGMA(allowable, bias, cv);
 }
 
 /**
@@ -36,7 +42,7 @@ export function perfSigma(allowable: any[][], bias: any[][], cv: any[][]): any[]
  * @returns {any[][]} Ratio observed / allowable.
  */
 export function perfShare(observed: any[][], allowable: any[][]): any[][] {
-  return run('PERF.SHARE', [observed, allowable]);
+  return PERF_SHARE(observed, allowable);
 }
 
 /**
@@ -51,7 +57,7 @@ export function perfShare(observed: any[][], allowable: any[][]): any[][] {
  * @returns {any[][]} Tier met.
  */
 export function perfTier(cvi: any[][], cvg: any[][], bias: any[][], cv: any[][], z?: any[][], mode?: any[][]): any[][] {
-  return run('PERF.TIER', [cvi, cvg, bias, cv, z, mode]);
+  return PERF_TIER(cvi, cvg, bias, cv, [z, mode]);
 }
 
 /**
@@ -64,5 +70,5 @@ export function perfTier(cvi: any[][], cvg: any[][], bias: any[][], cv: any[][],
  * @returns {any[][]} Critical shift, SD.
  */
 export function qcShift(allowable: any[][], bias: any[][], cv: any[][], z?: any[][]): any[][] {
-  return run('QC.SHIFT', [allowable, bias, cv, z]);
+  return QC_SHIFT(allowable, bias, cv, z);
 }

@@ -2,7 +2,11 @@
  * Worksheet wrappers, QC family: control-rule power and QC design (see spec.ts for the
  * conventions). QC.SHIFT is in perf.ts.
  */
-import { run } from './adapter';
+import { bind } from './adapter';
+
+const QC_DETECT = bind('QC.DETECT');
+const QC_FALSEREJECT = bind('QC.FALSEREJECT');
+const QC_PLAN = bind('QC.PLAN');
 
 
 /**
@@ -15,7 +19,7 @@ import { run } from './adapter';
  * @returns {any[][]} Probability of rejection (0–1).
  */
 export function qcDetect(rule: any[][], n: any[][], shift: any[][], runs?: any[][]): any[][] {
-  return run('QC.DETECT', [rule, n, shift, runs]);
+  return QC_DETECT(rule, n, shift, runs);
 }
 
 /**
@@ -27,7 +31,7 @@ export function qcDetect(rule: any[][], n: any[][], shift: any[][], runs?: any[]
  * @returns {any[][]} Probability of false rejection (0–1).
  */
 export function qcFalseReject(rule: any[][], n: any[][], runs?: any[][]): any[][] {
-  return run('QC.FALSEREJECT', [rule, n, runs]);
+  return QC_FALSEREJECT(rule, n, runs);
 }
 
 /**
@@ -41,5 +45,5 @@ export function qcFalseReject(rule: any[][], n: any[][], runs?: any[][]): any[][
  * @returns {any[][]} Labels, then the plan's values.
  */
 export function qcPlan(allowable: any[][], bias: any[][], cv: any[][], target?: any[][], limit?: any[][]): any[][] {
-  return run('QC.PLAN', [allowable, bias, cv, target, limit]);
+  return QC_PLAN(allowable, bias, cv, target, [limit]);
 }

@@ -4,7 +4,15 @@
  * Every parameter is declared as a range so that ranges in any argument spill.
  * The generator needs the literal type any[][] in each signature; the registry validates every cell.
  */
-import { run } from './adapter';
+import { bind } from './adapter';
+
+const SPEC_CV = bind('SPEC.CV');
+const SPEC_BIAS = bind('SPEC.BIAS');
+const SPEC_TOTAL = bind('SPEC.TOTAL');
+const SPEC_MU = bind('SPEC.MU');
+const SPEC_FIXED = bind('SPEC.FIXED');
+const SPEC_TIERS = bind('SPEC.TIERS');
+const ZSCORE = bind('ZSCORE');
 
 
 /**
@@ -15,7 +23,7 @@ import { run } from './adapter';
  * @returns {any[][]} Allowable analytical CV, %.
  */
 export function specCv(cvi: any[][], tier?: any[][]): any[][] {
-  return run('SPEC.CV', [cvi, tier]);
+  return SPEC_CV(cvi, tier);
 }
 
 /**
@@ -27,7 +35,7 @@ export function specCv(cvi: any[][], tier?: any[][]): any[][] {
  * @returns {any[][]} Allowable bias, %.
  */
 export function specBias(cvi: any[][], cvg: any[][], tier?: any[][]): any[][] {
-  return run('SPEC.BIAS', [cvi, cvg, tier]);
+  return SPEC_BIAS(cvi, cvg, tier);
 }
 
 /**
@@ -40,7 +48,7 @@ export function specBias(cvi: any[][], cvg: any[][], tier?: any[][]): any[][] {
  * @returns {any[][]} Allowable total error, %.
  */
 export function specTotal(cvi: any[][], cvg: any[][], tier?: any[][], z?: any[][]): any[][] {
-  return run('SPEC.TOTAL', [cvi, cvg, tier, z]);
+  return SPEC_TOTAL(cvi, cvg, tier, z);
 }
 
 /**
@@ -52,7 +60,7 @@ export function specTotal(cvi: any[][], cvg: any[][], tier?: any[][], z?: any[][
  * @returns {any[][]} Maximum allowable uncertainty, %.
  */
 export function specMu(cvi: any[][], tier?: any[][], k?: any[][]): any[][] {
-  return run('SPEC.MU', [cvi, tier, k]);
+  return SPEC_MU(cvi, tier, k);
 }
 
 /**
@@ -64,7 +72,7 @@ export function specMu(cvi: any[][], tier?: any[][], k?: any[][]): any[][] {
  * @returns {any[][]} Allowable total error at that level, %.
  */
 export function specFixed(level: any[][], absolute: any[][], percent: any[][]): any[][] {
-  return run('SPEC.FIXED', [level, absolute, percent]);
+  return SPEC_FIXED(level, absolute, percent);
 }
 
 /**
@@ -76,7 +84,7 @@ export function specFixed(level: any[][], absolute: any[][], percent: any[][]): 
  * @returns {any[][]} Table of allowable CV, bias and total error by tier.
  */
 export function specTiers(cvi: any[][], cvg: any[][], z?: any[][]): any[][] {
-  return run('SPEC.TIERS', [cvi, cvg, z]);
+  return SPEC_TIERS(cvi, cvg, z);
 }
 
 /**
@@ -87,5 +95,5 @@ export function specTiers(cvi: any[][], cvg: any[][], z?: any[][]): any[][] {
  * @returns {any[][]} z.
  */
 export function zScore(probability: any[][], sides?: any[][]): any[][] {
-  return run('ZSCORE', [probability, sides]);
+  return ZSCORE(probability, sides);
 }

@@ -8,8 +8,8 @@ import { PERF_FUNCTIONS } from './catalogue/perf';
 import { BV_FUNCTIONS } from './catalogue/bv';
 import { DATA_FUNCTIONS } from './catalogue/data';
 import { QC_FUNCTIONS } from './catalogue/qc';
-import { evaluateDef } from './evaluate';
-import type { Arg, FunctionDef, Output } from './types';
+import { compile, Evaluator } from './evaluate';
+import type { Arg, ErrorCell, FunctionDef, Output } from './types';
 
 export const NAMESPACE = 'LEEWAY';
 
@@ -31,10 +31,36 @@ export function findFunction(name: string): FunctionDef | undefined {
 }
 
 /** Evaluates a registered function; an unknown name is a #NAME?-like #VALUE! in the one cell. */
+const COMPILED = new Map<string, Evaluator>(FUNCTIONS.map((f) => [f.name, compile(f)]));
+
+/**
+ * The compiled evaluator of a function (name with or without the LEEWAY. prefix). With
+ * `mapError`, a new evaluator whose error cells are what mapError makes of them (the Excel
+ * wrappers bind one each at load time).
+ */
+export function compiledFunction(name: string, mapError?: (e: ErrorCell) => unknown): Evaluator | undefined {
+  if (mapError) {
+    const def = findFunction(name);
+    return def ? compile(def, mapError) : undefined;
+  }
+  return COMPILED.get(name) ?? COMPILED.get(findFunction(name)?.name ?? '');
+}
+
+const unknown = (name: string): Output => [[{ error: '#VALUE!', message: `unknown function ${name}` }]];
+
 export function evaluate(name: string, args: readonly Arg[]): Output {
-  const def = BY_NAME.get(name) ?? findFunction(name);
-  if (!def) return [[{ error: '#VALUE!', message: `unknown function ${name}` }]];
-  return evaluateDef(def, args);
+  const e = compiledFunction(name);
+  return e ? e.run(args) : unknown(name);
+}
+
+/**
+ * The same, with up to four arguments given positionally and any further ones in `rest` (the
+ * worksheet wrappers call this: it spares an argument array per cell).
+ */
+export function evaluateAt(name: string, a0?: Arg, a1?: Arg, a2?: Arg, a3?: Arg, rest?: readonly Arg[]): Output {
+  const e = compiledFunction(name);
+  return e ? e.at(a0, a1, a2, a3, rest) : unknown(name);
 }
 
 export type { Arg, FunctionDef, Output } from './types';
+export type { Evaluator } from './evaluate';
