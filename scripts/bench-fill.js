@@ -8,10 +8,10 @@
 //   the Excel writer's batch for 10 and 1,000 rows against a recording fake: syncs and ranges.
 // Invented data (seeded); not a test: nothing here fails on a slow machine.
 'use strict';
+const { loadSources } = require('./lib/load-sources');
 const path = require('path');
 const fs = require('fs');
 const os = require('os');
-const Module = require('module');
 const root = path.join(__dirname, '..');
 
 const entry = `
@@ -20,20 +20,7 @@ export { planFill } from './src/engine/fill';
 export { main } from './src/cli/main';
 export { createSheetIO } from './src/taskpane/excel';
 `;
-const built = require('esbuild').buildSync({
-  stdin: { contents: entry, resolveDir: root, loader: 'ts', sourcefile: 'bench-fill-entry.ts' },
-  bundle: true,
-  platform: 'node',
-  target: 'node20',
-  format: 'cjs',
-  write: false,
-  external: ['exceljs', 'papaparse', 'decimal.js'],
-  logLevel: 'warning',
-});
-const m = new Module(path.join(root, 'bench-fill-entry.js'));
-m.paths = Module._nodeModulePaths(root);
-m._compile(built.outputFiles[0].text, path.join(root, 'bench-fill-entry.js'));
-const L = m.exports;
+const L = loadSources(entry, 'bench-fill-entry');
 
 function csv(n, seed) {
   let a = seed >>> 0;

@@ -5,8 +5,8 @@
 //   candidates, detection and false rejection); 300 QC.PLAN calls for invented analytes (seeded).
 // Targets (issue 4): DETECT cold ≤ 20 ms, cached ≤ 0.1 ms; PLAN cold ≤ 250 ms; 300 PLANs in seconds.
 'use strict';
+const { loadSources } = require('./lib/load-sources');
 const path = require('path');
-const Module = require('module');
 const root = path.join(__dirname, '..');
 
 const entry = `
@@ -15,20 +15,7 @@ export { clearQcCaches } from './src/engine/qc/power';
 export { planQc, QC_CANDIDATES } from './src/engine/qc/plan';
 export { detectionProbability } from './src/engine/qc/power';
 `;
-const built = require('esbuild').buildSync({
-  stdin: { contents: entry, resolveDir: root, loader: 'ts', sourcefile: 'bench-qc-entry.ts' },
-  bundle: true,
-  platform: 'node',
-  target: 'node20',
-  format: 'cjs',
-  write: false,
-  external: ['exceljs', 'papaparse', 'decimal.js'],
-  logLevel: 'warning',
-});
-const m = new Module(path.join(root, 'bench-qc-entry.js'));
-m.paths = Module._nodeModulePaths(root);
-m._compile(built.outputFiles[0].text, path.join(root, 'bench-qc-entry.js'));
-const { evaluate, clearQcCaches, planQc, QC_CANDIDATES, detectionProbability } = m.exports;
+const { evaluate, clearQcCaches, planQc, QC_CANDIDATES, detectionProbability } = loadSources(entry, 'bench-qc-entry');
 
 const now = () => Number(process.hrtime.bigint()) / 1e6;
 function median(xs) {

@@ -3,10 +3,10 @@
 // the same machine; every timing is the median of several runs after a warm-up, printed with its
 // spread (min–max). Not a test: nothing here fails on a slow machine.
 'use strict';
+const { loadSources } = require('./lib/load-sources');
 const path = require('path');
 const fs = require('fs');
 const zlib = require('zlib');
-const Module = require('module');
 const { performance } = require('perf_hooks');
 const root = path.join(__dirname, '..');
 const json = process.argv.includes('--json');
@@ -23,21 +23,9 @@ export { planFill } from './src/engine/fill';
 export { createSheetIO } from './src/taskpane/excel';
 export { harness } from './test/support/excel-harness';
 export { main } from './src/cli/main';
+export { mulberry32 } from './src/engine/demo/random';
 `;
-const built = require('esbuild').buildSync({
-  stdin: { contents: entry, resolveDir: root, loader: 'ts', sourcefile: 'bench-entry.ts' },
-  bundle: true,
-  platform: 'node',
-  target: 'node20',
-  format: 'cjs',
-  write: false,
-  external: ['exceljs', 'papaparse', 'decimal.js', 'hyperformula', 'office-addin-mock'],
-  logLevel: 'error',
-});
-const m = new Module(path.join(root, 'bench-entry.js'));
-m.paths = Module._nodeModulePaths(root);
-m._compile(built.outputFiles[0].text, path.join(root, 'bench-entry.js'));
-const L = m.exports;
+const L = loadSources(entry, 'bench-entry');
 
 // The worksheet wrappers need Excel's CustomFunctions global; a minimal stand-in.
 globalThis.CustomFunctions = {
@@ -49,6 +37,29 @@ globalThis.CustomFunctions = {
   },
   ErrorCode: { invalidValue: '#VALUE!', notAvailable: '#N/A', divisionByZero: '#DIV/0!', invalidNumber: '#NUM!' },
 };
+
+/** A and B timed in alternation (A, B, A, B, …), so drifts in machine load fall on both alike. */
+function measurePair(fnA, fnB, { runs = 9, warmup = 2 } = {}) {
+  for (let i = 0; i < warmup; i++) {
+    fnA();
+    fnB();
+  }
+  const ta = [];
+  const tb = [];
+  for (let i = 0; i < runs; i++) {
+    let t = performance.now();
+    fnA();
+    ta.push(performance.now() - t);
+    t = performance.now();
+    fnB();
+    tb.push(performance.now() - t);
+  }
+  const stat = (xs) => {
+    xs.sort((x, y) => x - y);
+    return { median: xs[Math.floor(xs.length / 2)], min: xs[0], max: xs[xs.length - 1] };
+  };
+  return [stat(ta), stat(tb)];
+}
 
 function measure(fn, { runs = 7, warmup = 2 } = {}) {
   for (let i = 0; i < warmup; i++) fn();
@@ -62,16 +73,7 @@ function measure(fn, { runs = 7, warmup = 2 } = {}) {
   return { median: t[Math.floor(t.length / 2)], min: t[0], max: t[t.length - 1] };
 }
 
-function seeded(seed) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const seeded = (seed) => L.mulberry32(seed);
 
 const rows = [];
 const out = {};
@@ -98,8 +100,7 @@ function timing(key, label, t, target) {
   const hfNative = L.leewaySheet({ S: sheet((r) => `=1.65*0.5*A${r}+0.25*SQRT(A${r}^2+B${r}^2)`) });
   const check = hfLeeway.getCellValue({ sheet: 0, row: 9, col: 2 }) - hfNative.getCellValue({ sheet: 0, row: 9, col: 2 });
   if (Math.abs(check) > 1e-12) throw new Error('the two sheets disagree');
-  const a = measure(() => hfLeeway.rebuildAndRecalculate(), { runs: 5, warmup: 1 });
-  const b = measure(() => hfNative.rebuildAndRecalculate(), { runs: 5, warmup: 1 });
+  const [a, b] = measurePair(() => hfLeeway.rebuildAndRecalculate(), () => hfNative.rebuildAndRecalculate(), { runs: 7, warmup: 1 });
   ratio('sheet_ratio', 'sheet recalc, 10,000 rows: LEEWAY.SPEC.TOTAL / native formula (HyperFormula)', a, b, '≤ 1.5');
 }
 
@@ -114,12 +115,14 @@ const cvg = new Float64Array(N);
     cvg[i] = 0.5 + 50 * rand();
   }
   let sink = 0;
-  const engine = measure(() => {
-    for (let i = 0; i < N; i++) sink += L.allowableTotalError(cvi[i], cvg[i], 'desirable', 1.65);
-  });
-  const inline = measure(() => {
-    for (let i = 0; i < N; i++) sink += 1.65 * 0.5 * cvi[i] + 0.25 * Math.sqrt(cvi[i] * cvi[i] + cvg[i] * cvg[i]);
-  });
+  const [engine, inline] = measurePair(
+    () => {
+      for (let i = 0; i < N; i++) sink += L.allowableTotalError(cvi[i], cvg[i], 'desirable', 1.65);
+    },
+    () => {
+      for (let i = 0; i < N; i++) sink += 1.65 * 0.5 * cvi[i] + 0.25 * Math.sqrt(cvi[i] * cvi[i] + cvg[i] * cvg[i]);
+    },
+  );
   if (!Number.isFinite(sink)) throw new Error('sink');
   ratio('engine_ratio', 'engine SPEC.TOTAL / inline arithmetic, 10^6 inputs', engine, inline, '≤ 3');
 }
@@ -131,23 +134,28 @@ const cvg = new Float64Array(N);
   let sink = 0;
   const cells = [];
   for (let i = 0; i < M; i++) cells.push([[[cvi[i]]], [[cvg[i]]]]);
-  const wrapper = measure(() => {
-    for (let i = 0; i < M; i++) sink += L.specTotal(cells[i][0], cells[i][1], null, null)[0][0];
-  });
-  const engine = measure(() => {
-    for (let i = 0; i < M; i++) sink += L.allowableTotalError(cells[i][0][0][0], cells[i][1][0][0], 'desirable', 1.65);
-  });
+  const [wrapper, engine] = measurePair(
+    () => {
+      for (let i = 0; i < M; i++) sink += L.specTotal(cells[i][0], cells[i][1], null, null)[0][0];
+    },
+    () => {
+      for (let i = 0; i < M; i++) sink += L.allowableTotalError(cells[i][0][0][0], cells[i][1][0][0], 'desirable', 1.65);
+    },
+    { runs: 15 },
+  );
   if (!Number.isFinite(sink)) throw new Error('sink');
   ratio('wrapper_ratio', 'worksheet wrapper / engine call, one cell per call', wrapper, engine, '≤ 2');
   const column = cvi.subarray(0, M);
   const colGrid = Array.from(column, (v) => [v]);
   const colGrid2 = Array.from(cvg.subarray(0, M), (v) => [v]);
-  const wrapRange = measure(() => {
-    sink += L.specTotal(colGrid, colGrid2, null, null).length;
-  });
-  const engRange = measure(() => {
-    for (let i = 0; i < M; i++) sink += L.allowableTotalError(colGrid[i][0], colGrid2[i][0], 'desirable', 1.65);
-  });
+  const [wrapRange, engRange] = measurePair(
+    () => {
+      sink += L.specTotal(colGrid, colGrid2, null, null).length;
+    },
+    () => {
+      for (let i = 0; i < M; i++) sink += L.allowableTotalError(colGrid[i][0], colGrid2[i][0], 'desirable', 1.65);
+    },
+  );
   ratio('wrapper_range_ratio', 'worksheet wrapper / engine, one 200,000-row range per call', wrapRange, engRange, '(info)');
 }
 

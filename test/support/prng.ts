@@ -1,17 +1,9 @@
 /**
- * A small seeded pseudo-random generator for property tests (mulberry32; Tommy Ettinger's
- * public-domain construction). Every property test states its seed, so a failure repeats.
+ * Seeded generators for property tests: the engine's own mulberry32 (src/engine/demo/random.ts,
+ * Tommy Ettinger's public-domain construction). Every property test states its seed, so a
+ * failure repeats.
  */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { mulberry32 } from '../../src/engine/demo/random';
 
 /** Uniform in [lo, hi). */
 export function uniform(rand: () => number, lo: number, hi: number): number {
