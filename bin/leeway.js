@@ -1,12 +1,30 @@
 #!/usr/bin/env node
-// The leeway command. Runs the CLI bundle built by `npm run build:cli` (done on `npm ci` by the
-// prepare script). From a checkout without the bundle, it builds it first.
+// The leeway command. Runs the CLI bundle that `npm ci` (the prepare script) builds into
+// dist/cli/leeway.js; in a checkout where the bundle is missing or older than src/, it rebuilds
+// it first (esbuild, well under a second), so the command always runs the sources it sits beside.
 'use strict';
 const path = require('path');
 const fs = require('fs');
-const bundle = path.join(__dirname, '..', 'dist', 'cli', 'leeway.js');
-if (!fs.existsSync(bundle)) {
-  require('child_process').execFileSync(process.execPath, [path.join(__dirname, '..', 'scripts', 'build-cli.js')], {
+const root = path.join(__dirname, '..');
+const bundle = path.join(root, 'dist', 'cli', 'leeway.js');
+
+function newestSource(dir) {
+  let newest = 0;
+  for (const e of fs.readdirSync(dir, { withFileTypes: true })) {
+    const p = path.join(dir, e.name);
+    newest = Math.max(newest, e.isDirectory() ? newestSource(p) : fs.statSync(p).mtimeMs);
+  }
+  return newest;
+}
+
+function stale() {
+  if (!fs.existsSync(bundle)) return true;
+  const src = path.join(root, 'src');
+  return fs.existsSync(src) && newestSource(src) > fs.statSync(bundle).mtimeMs;
+}
+
+if (stale()) {
+  require('child_process').execFileSync(process.execPath, [path.join(root, 'scripts', 'build-cli.js')], {
     stdio: ['ignore', 'ignore', 'inherit'],
   });
 }
