@@ -8,11 +8,11 @@
  * saying so, and fills them once it is. Every sheet says "DEMO — invented data, not for
  * clinical use" and carries the caution of SPEC.md section 9.
  */
-import ExcelJS from 'exceljs';
+import type ExcelJS from 'exceljs';
 import { UsageError } from './call';
 import type { Io } from './main';
 import { one, readOptions } from './options';
-import { writeWorkbookAtomically, today } from './files';
+import { writeWorkbookAtomically, today, newWorkbook } from './files';
 import { headerHeight, printSetup, writePlan } from './xlsx';
 import { evaluate, findFunction } from '../registry';
 import type { Arg } from '../registry';
@@ -189,7 +189,7 @@ const P3 = '0.000';
 
 /** Builds the demo workbook (in memory). */
 export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = {}): ExcelJS.Workbook {
-  const wb = new ExcelJS.Workbook();
+  const wb = newWorkbook();
   wb.creator = `Leeway ${VERSION}`;
   wb.title = `Leeway demo workbook — ${DEMO_MARKER}`;
   const figures = demoFigures();

@@ -48,3 +48,13 @@ export function today(): string {
   const p = (n: number): string => String(n).padStart(2, '0');
   return `${d.getFullYear()}-${p(d.getMonth() + 1)}-${p(d.getDate())}`;
 }
+
+/**
+ * A new exceljs workbook. exceljs is loaded here, on first use, so commands that never touch a
+ * workbook (`leeway call`, `leeway check`) start without it.
+ */
+export function newWorkbook(): ExcelJS.Workbook {
+  // eslint-disable-next-line @typescript-eslint/no-require-imports
+  const { Workbook } = require('exceljs') as typeof ExcelJS;
+  return new Workbook();
+}

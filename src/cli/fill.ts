@@ -7,11 +7,11 @@
  * (stored as Excel stores add-in calls, see xlsx.ts) with their results cached.
  */
 import * as path from 'path';
-import ExcelJS from 'exceljs';
+import type ExcelJS from 'exceljs';
 import { UsageError } from './call';
 import type { Io } from './main';
 import { one, readOptions } from './options';
-import { readText, checkOutput, writeWorkbookAtomically, today } from './files';
+import { readText, checkOutput, writeWorkbookAtomically, today, newWorkbook } from './files';
 import { progressBar } from './progress';
 import { printSetup, readSnapshot, writePlan } from './xlsx';
 import { parseTableText, acceptImport, formatReport } from '../engine/table';
@@ -100,7 +100,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
     throw new Error(`the table has no analyte ${selection.unknown.map((n) => `"${n}"`).join(', ')}: nothing was written (it lists ${table.rows.slice(0, 8).map((r) => r.analyte).join(', ')}${table.rows.length > 8 ? ', …' : ''})`);
   }
 
-  const wb = new ExcelJS.Workbook();
+  const wb = newWorkbook();
   let target: FillRequest['target'];
   let ws: ExcelJS.Worksheet;
   if (template) {

@@ -13,7 +13,7 @@
  * give. Each formula cell carries its computed result, and the workbook does not ask for a
  * full recalculation on load, so a reader without the add-in sees the values.
  */
-import ExcelJS from 'exceljs';
+import type ExcelJS from 'exceljs';
 import type { CellContent, CellResult, ExistingCell, FillPlan, PlannedCell, SheetSnapshot } from '../engine/fill';
 import { NAMESPACE } from '../registry';
 
