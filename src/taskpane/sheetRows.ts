@@ -9,6 +9,7 @@ import type { GridCell } from '../engine/table';
 import { readDecimal } from '../engine/table';
 import type { ActiveSheet } from './host';
 import { columnLetters } from '../engine/fill/a1';
+import { TIER_CELL_LABEL, Z_CELL_LABEL } from '../engine/fill';
 
 /** Normalised header names read as the observed bias and the observed (analytical) CV. */
 const BIAS_NAMES = new Set(['bias', 'observedbias', 'biasobserved', 'measuredbias', 'methodbias', 'estimatedbias', 'meanbias']);
@@ -121,8 +122,9 @@ export function readAllRows(sheet: ActiveSheet): { ok: true; rows: SheetRowReadi
 }
 
 /** The block label the fill planner writes beside a filled sheet's tier cell (src/engine/fill/plan.ts). */
-const TIER_LABEL = /^tier \(whole sheet\)$/i;
-const Z_LABEL = /^z \(coverage factor\)$/i;
+const sameLabel = (label: string) => (v: string): boolean => v.toLowerCase() === label.toLowerCase();
+const isTierLabel = sameLabel(TIER_CELL_LABEL);
+const isZLabel = sameLabel(Z_CELL_LABEL);
 
 export interface FoundTierCell {
   /** Absolute address, e.g. "$B$4". */
@@ -144,8 +146,8 @@ export function findTierCell(sheet: ActiveSheet): FoundTierCell | null {
     row.forEach((v, j) => {
       if (typeof v !== 'string') return;
       const addr = `$${columnLetters(g.firstColumn + j + 1)}$${g.firstRow + i}`;
-      if (!tier && TIER_LABEL.test(v.trim())) tier = { tierCell: addr, zCell: null, tier: text(row[j + 1]) };
-      if (!z && Z_LABEL.test(v.trim())) z = addr;
+      if (!tier && isTierLabel(v.trim())) tier = { tierCell: addr, zCell: null, tier: text(row[j + 1]) };
+      if (!z && isZLabel(v.trim())) z = addr;
     });
   });
   if (!tier) return null;

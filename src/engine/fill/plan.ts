@@ -48,6 +48,10 @@ import { DERIVED_FIELDS } from './types';
 
 export const TITLE = 'Leeway — analytical performance specifications';
 
+/** The labels beside a filled sheet's tier cell and z cell (the task pane finds them by these). */
+export const TIER_CELL_LABEL = 'Tier (whole sheet)';
+export const Z_CELL_LABEL = 'z (coverage factor)';
+
 /** Characters per line of the caution in the block. */
 const CAUTION_WIDTH = 95;
 
@@ -278,7 +282,7 @@ export function planFill(req: FillRequest): PlanResult {
   if (req.table.demo) put(r++, labelCol, text(DEMO_MARKER), 'demo');
   const tierRef = { row: r, col: valueCol };
   const tierCell = a1(tierRef, true);
-  put(r, labelCol, text('Tier (whole sheet)'), 'label');
+  put(r, labelCol, text(TIER_CELL_LABEL), 'label');
   put(r++, valueCol, text(req.tier), 'tier', {
     note:
       req.mode === 'live'
@@ -287,7 +291,7 @@ export function planFill(req: FillRequest): PlanResult {
   });
   const zRef = { row: r, col: valueCol };
   const zCell = a1(zRef, true);
-  put(r, labelCol, text('z (coverage factor)'), 'label');
+  put(r, labelCol, text(Z_CELL_LABEL), 'label');
   put(r++, valueCol, numberCell(req.z), 'z', { note: 'Coverage factor for imprecision in the total-error model; 1.65 is one-sided 95 %.' });
   const pairs: Array<[string, string]> = [
     ['Table', req.table.name],

@@ -20,6 +20,7 @@ import { allowanceChart } from '../charts';
 import { readActiveRow, readAllRows, findTierCell } from '../sheetRows';
 import { readTier } from '../../engine/tiers';
 import { DEMO_MARKER } from '../../engine/caution';
+import { TIER_CELL_LABEL } from '../../engine/fill';
 import { demoObserved } from '../demo';
 
 function inputOf(r: VariationRow, z: number, obs: { bias: number; cv: number } | null) {
@@ -369,7 +370,7 @@ export function compareView(ctx: PaneContext): View {
           const sheet = await ctx.host.readActiveSheet();
           const found = findTierCell(sheet);
           if (!found) {
-            ctx.status(`${sheet.grid.sheet} has no “Tier (whole sheet)” cell: it was not filled by Leeway, or the block was removed.`, 'error');
+            ctx.status(`${sheet.grid.sheet} has no “${TIER_CELL_LABEL}” cell: it was not filled by Leeway, or the block was removed.`, 'error');
             return;
           }
           let tier = state.sheetTier;
