@@ -6,8 +6,8 @@
  * be corrected; formula-looking text stays text.
  */
 import * as path from 'path';
-import type { Browser, Page } from 'playwright-core';
-import { describeInBrowser, ensureBuild, serve, launch, openPane } from './harness';
+import type { Page } from 'playwright-core';
+import { describeInBrowser, usePane } from './harness';
 import { importAndAccept, view, FIXTURES, setCells, setActive, lastCall, screenshot, statusText, log } from './helpers';
 import { planFill } from '../../src/engine/fill';
 import type { FillPlan } from '../../src/engine/fill';
@@ -21,21 +21,10 @@ async function pickRadio(page: Page, name: string, value: string): Promise<void>
 }
 
 describeInBrowser('task pane: choosing and filling', () => {
-  let browser: Browser;
-  let server: { url: string; close: () => Promise<void> };
-
-  beforeAll(async () => {
-    ensureBuild();
-    server = await serve();
-    browser = await launch();
-  }, 240000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  const open = usePane();
 
   test('tiers, coverage and analytes chosen in the pane reach the Excel layer as the planner lays them out', async () => {
-    const { context, page, errors } = await openPane(browser, server.url);
+    const { context, page, errors } = await open();
     const demo = demoTable();
     await view(page, 'fill');
     await pickRadio(page, 'sheet-tier', 'minimum');
@@ -105,7 +94,7 @@ describeInBrowser('task pane: choosing and filling', () => {
   });
 
   test('into a template: the header match is shown and can be corrected; non-empty cells are listed and written only after confirmation', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     const demo = demoTable();
     const a = demo.rows[0];
     await setCells(page, 'Sheet1', 2, 1, [
@@ -143,7 +132,7 @@ describeInBrowser('task pane: choosing and filling', () => {
   });
 
   test('without confirmation nothing is written over a non-empty cell', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     const a = demoTable().rows[0];
     await setCells(page, 'Sheet1', 1, 1, [
       ['Analyte', 'CVI %', 'Allowable CV %'],
@@ -160,7 +149,7 @@ describeInBrowser('task pane: choosing and filling', () => {
   });
 
   test('into the selected range: the selection’s first row is the header row', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await setCells(page, 'Sheet1', 10, 4, [['Analyte', 'CVI', 'CVG', 'Allowable bias %']]);
     await setActive(page, { selection: { row: 10, col: 4, rows: 5, cols: 4 } });
     await view(page, 'fill');
@@ -182,7 +171,7 @@ describeInBrowser('task pane: choosing and filling', () => {
   });
 
   test('text starting with = is planned as text, never as a formula', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await importAndAccept(page, path.join(FIXTURES, 'markup.csv'));
     await view(page, 'fill');
     await page.click('#check-fill');
@@ -197,7 +186,7 @@ describeInBrowser('task pane: choosing and filling', () => {
   });
 
   test('an invalid coverage is refused with the engine’s message and nothing is planned', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'fill');
     await pickRadio(page, 'coverage-mode', 'probability');
     await page.fill('#coverage-value', '1.5');

@@ -140,3 +140,22 @@ export function docsPath(name: string): string {
   fs.mkdirSync(DOCS, { recursive: true });
   return path.join(DOCS, name);
 }
+
+/**
+ * One browser and one server for the describe block that calls this (built first if needed),
+ * closed after it; returns the function that opens a fresh pane in it.
+ */
+export function usePane(): (o?: PaneOptions) => ReturnType<typeof openPane> {
+  let browser: Browser | undefined;
+  let server: { url: string; close: () => Promise<void> } | undefined;
+  beforeAll(async () => {
+    ensureBuild();
+    server = await serve();
+    browser = await launch();
+  }, 240000);
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+  });
+  return (o) => openPane(browser!, server!.url, o);
+}

@@ -6,8 +6,8 @@
  */
 import * as fs from 'fs';
 import * as path from 'path';
-import type { Browser, Page } from 'playwright-core';
-import { describeInBrowser, ensureBuild, serve, launch, openPane, DIST } from './harness';
+import type { Page } from 'playwright-core';
+import { describeInBrowser, DIST, usePane } from './harness';
 import { view, screenshot } from './helpers';
 import { CAUTION } from '../../src/engine/caution';
 
@@ -30,21 +30,10 @@ async function unnamed(page: Page): Promise<string[]> {
 }
 
 describeInBrowser('task pane: narrow width, keyboard, caution', () => {
-  let browser: Browser;
-  let server: { url: string; close: () => Promise<void> };
-
-  beforeAll(async () => {
-    ensureBuild();
-    server = await serve();
-    browser = await launch();
-  }, 240000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  const open = usePane();
 
   test('at 320 px no view scrolls sideways, and every visible control has a name', async () => {
-    const { context, page, errors } = await openPane(browser, server.url, { width: 320 });
+    const { context, page, errors } = await open({ width: 320 });
     // Put content in every view: observed figures for the demo, a fill check.
     await view(page, 'compare');
     await page.click('#use-demo-observed');
@@ -62,7 +51,7 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
   });
 
   test('the tab list works with arrow keys, Home and End; Tab moves into the view; focus is visible', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await page.focus('#tab-library');
     await page.keyboard.press('ArrowRight');
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-fill');
@@ -91,7 +80,7 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
   });
 
   test('a what-if can be done by keyboard alone', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await page.focus('#tab-library');
     await page.keyboard.press('ArrowRight');
     await page.keyboard.press('ArrowRight');
@@ -108,7 +97,7 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
   });
 
   test('the caution is on screen in every view and opens by keyboard to the full text of SPEC.md section 9', async () => {
-    const { context, page } = await openPane(browser, server.url, { height: 600 });
+    const { context, page } = await open({ height: 600 });
     for (const v of VIEWS) {
       await view(page, v);
       await page.evaluate(() => window.scrollTo(0, document.body.scrollHeight / 2));
@@ -125,7 +114,7 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
   });
 
   test('screenshots of the pane at its default width', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await page.click('#caution summary');
     await screenshot(page, 'pane-caution.png');
     await context.close();
@@ -145,7 +134,7 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
   });
 
   test('in a plain browser with the real office.js the pane starts, says it is not in Excel, and makes no outside request', async () => {
-    const { context, page, errors } = await openPane(browser, server.url, { realOffice: true });
+    const { context, page, errors } = await open({ realOffice: true });
     expect(await page.isVisible('#host-note')).toBe(true);
     expect(await page.textContent('#host-note')).toMatch(/^Not inside Excel/);
     const timing = await page.evaluate(() => {

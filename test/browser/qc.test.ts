@@ -5,8 +5,8 @@
  * view redraws within a frame once its curves are cached; the summary sheet request carries one
  * row per analyte with the engine's figures, the provenance and the caution.
  */
-import type { Browser, Page } from 'playwright-core';
-import { describeInBrowser, ensureBuild, serve, launch, openPane } from './harness';
+import type { Page } from 'playwright-core';
+import { describeInBrowser, usePane } from './harness';
 import { view, lastCall, screenshot } from './helpers';
 import { evaluate } from '../../src/registry';
 import { planQc } from '../../src/engine/qc/plan';
@@ -47,21 +47,10 @@ async function typeFigures(page: Page, allowable: number, bias: number, cv: numb
 }
 
 describeInBrowser('task pane: QC design and summary', () => {
-  let browser: Browser;
-  let server: { url: string; close: () => Promise<void> };
-
-  beforeAll(async () => {
-    ensureBuild();
-    server = await serve();
-    browser = await launch();
-  }, 240000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  const open = usePane();
 
   test('the plan shown equals QC.PLAN for typed figures', async () => {
-    const { context, page, errors } = await openPane(browser, server.url);
+    const { context, page, errors } = await open();
     await view(page, 'qc');
     for (const [allowable, bias, cv] of [
       [10, 1, 2],
@@ -87,7 +76,7 @@ describeInBrowser('task pane: QC design and summary', () => {
   });
 
   test('the curves plotted are the engine’s power curves; the critical shift is marked', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'qc');
     await typeFigures(page, 10, 1, 2);
     const plan = planQc(10, 1, 2);
@@ -122,7 +111,7 @@ describeInBrowser('task pane: QC design and summary', () => {
   });
 
   test('once its curves are cached the QC view redraws within a frame', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'qc');
     await typeFigures(page, 10, 1, 2);
     // Same axis (critical shift 2.85 → 4 SD), different plan inputs: every curve is cached.
@@ -138,7 +127,7 @@ describeInBrowser('task pane: QC design and summary', () => {
   });
 
   test('from an analyte: its tier’s allowable total error and its observed figures feed the plan', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'compare');
     await page.click('#use-demo-observed');
     await view(page, 'qc');
@@ -155,7 +144,7 @@ describeInBrowser('task pane: QC design and summary', () => {
   });
 
   test('the summary sheet request: one row per analyte with the engine’s figures, the provenance and the caution', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'compare');
     await page.click('#use-demo-observed');
     await view(page, 'summary');

@@ -6,29 +6,17 @@
  */
 import * as fs from 'fs';
 import * as path from 'path';
-import type { Browser } from 'playwright-core';
-import { describeInBrowser, ensureBuild, serve, launch, openPane } from './harness';
+import { describeInBrowser, usePane } from './harness';
 import { importFile, importAndAccept, view, TABLES, FIXTURES, setCells, setActive, screenshot, statusText, tempCsv } from './helpers';
 import { mulberry32, uniform } from '../support/prng';
 import { parseTableText, formatProblem } from '../../src/engine/table';
 import { DEMO_MARKER } from '../../src/engine/caution';
 
 describeInBrowser('task pane: variation tables', () => {
-  let browser: Browser;
-  let server: { url: string; close: () => Promise<void> };
-
-  beforeAll(async () => {
-    ensureBuild();
-    server = await serve();
-    browser = await launch();
-  }, 240000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  const open = usePane();
 
   test('a good CSV gives a report without problems; nothing is stored until accepted; then it is listed and in use', async () => {
-    const { context, page, errors } = await openPane(browser, server.url);
+    const { context, page, errors } = await open();
     await screenshot(page, 'pane-tables.png');
     await importFile(page, path.join(TABLES, 'good.csv'), 'Lab table');
     expect(await page.textContent('#report-summary')).toMatch(/^3 data rows, 0 errors, 0 warnings · separator “,”/);
@@ -54,7 +42,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('a bad CSV lists every problem with its row and column, as the engine reports them, and cannot be imported', async () => {
-    const { context, page, errors } = await openPane(browser, server.url);
+    const { context, page, errors } = await open();
     const file = path.join(TABLES, 'bad-cv.csv');
     await importFile(page, file);
     const expected = parseTableText(fs.readFileSync(file, 'utf8'));
@@ -82,7 +70,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('the header-mapping step: other header names are matched, an unknown one can be mapped, and the report follows', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     const file = path.join(TABLES, 'aliases.csv');
     const text = fs.readFileSync(file, 'utf8');
     await importFile(page, file);
@@ -105,7 +93,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('rename, export to CSV and delete; the demo table cannot be deleted and is always marked as demo data', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     expect(await page.textContent('#demo-badge')).toBe(DEMO_MARKER);
     expect(await page.isVisible('#demo-badge')).toBe(true);
     const demoCard = page.locator('#table-list li[data-table-id="demo"]');
@@ -137,7 +125,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('a table can be read from the selected worksheet range; problems name the sheet’s own cells', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await setCells(page, 'Sheet1', 4, 3, [
       ['Analyte', 'CVI', 'CVG', 'Source'],
       ['Arvelin', 5.7, 6.9, 'Invented for tests (2026-01)'],
@@ -154,7 +142,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('a 5,000-row table is read and checked in under a second, and accepted into the library', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     const rand = mulberry32(5000);
     const lines = ['analyte;specimen;unit;cvi;cvg;source'];
     for (let i = 0; i < 5000; i++) lines.push(`Invented ${i};serum;U/L;${uniform(rand, 1, 30).toFixed(2).replace('.', ',')};${uniform(rand, 1, 50).toFixed(2).replace('.', ',')};Invented for tests (2026-01)`);
@@ -171,7 +159,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('a 5 MB file with a problem every 100 rows: the report lists the first 200 and offers the rest, nothing is stored, the pane stays usable', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     const lines = ['analyte,specimen,unit,cvi,cvg,source,note'];
     const pad = 'x'.repeat(40);
     let i = 0;
@@ -199,7 +187,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('the CSV corpus: each file gives the engine’s report in the pane and an empty file imports nothing', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     for (const name of fs.readdirSync(TABLES).filter((f) => /\.(csv|tsv)$/.test(f)).sort()) {
       const text = fs.readFileSync(path.join(TABLES, name), 'utf8');
       const r = parseTableText(text);
@@ -217,7 +205,7 @@ describeInBrowser('task pane: variation tables', () => {
   });
 
   test('markup in an analyte name or source renders as text and never runs', async () => {
-    const { context, page, errors } = await openPane(browser, server.url);
+    const { context, page, errors } = await open();
     await importAndAccept(page, path.join(FIXTURES, 'markup.csv'), '<i>Markup</i> table');
     expect(await page.textContent('#table-name')).toBe('<i>Markup</i> table · 3 rows');
     await view(page, 'fill');

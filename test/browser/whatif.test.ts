@@ -4,8 +4,8 @@
  * chart plots those numbers; the tier cell of a filled sheet is changed from the pane; and the
  * what-if of a 1,000-analyte sheet takes under 200 ms of script time.
  */
-import type { Browser, Page } from 'playwright-core';
-import { describeInBrowser, ensureBuild, serve, launch, openPane } from './harness';
+import type { Page } from 'playwright-core';
+import { describeInBrowser, usePane } from './harness';
 import { view, setCells, setActive, lastCall, screenshot, statusText, tempCsv, importAndAccept } from './helpers';
 import { demoTable } from '../../src/engine/demo';
 import { tierTable } from '../../src/engine/spec';
@@ -27,21 +27,10 @@ async function tierRows(page: Page): Promise<Array<Record<string, string>>> {
 }
 
 describeInBrowser('task pane: what-if', () => {
-  let browser: Browser;
-  let server: { url: string; close: () => Promise<void> };
-
-  beforeAll(async () => {
-    ensureBuild();
-    server = await serve();
-    browser = await launch();
-  }, 240000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  const open = usePane();
 
   test('the three tiers shown equal the engine’s SPEC.TIERS, in the table and in the chart', async () => {
-    const { context, page, errors } = await openPane(browser, server.url);
+    const { context, page, errors } = await open();
     await view(page, 'compare');
     for (const r of demoTable().rows.slice(0, 4)) {
       await page.selectOption('#whatif-analyte', rowKey(r.analyte, r.specimen));
@@ -61,7 +50,7 @@ describeInBrowser('task pane: what-if', () => {
   });
 
   test('observed bias and CV typed give the engine’s observed total error, sigma, share and tier met', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'compare');
     const r = demoTable().rows[0];
     const cvg = r.cvg as number;
@@ -91,7 +80,7 @@ describeInBrowser('task pane: what-if', () => {
   });
 
   test('observed bias and CV read from the active row give the same figures; the row’s analyte is selected', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     const r = demoTable().rows[2];
     await setCells(page, 'Sheet1', 1, 1, [
       ['Analyte', 'Specimen', 'Bias %', 'CV %'],
@@ -119,7 +108,7 @@ describeInBrowser('task pane: what-if', () => {
   });
 
   test('the tier cell of the filled sheet is changed from the pane', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'compare');
     expect(await page.isDisabled('#apply-tier')).toBe(true);
     await view(page, 'fill');
@@ -144,7 +133,7 @@ describeInBrowser('task pane: what-if', () => {
     await context.close();
 
     // In a later session (a new pane) the tier cell is found on the filled sheet by its label.
-    const later = await openPane(browser, server.url);
+    const later = await open();
     const page2 = later.page;
     await page2.evaluate((pl) => (window as unknown as { leewayTestHost: { writeFill: (x: unknown) => Promise<unknown> } }).leewayTestHost.writeFill(pl), { ...plan, cells: plan.cells.map((c) => (c.address === plan.tierCell.replace(/\$/g, '') ? { ...c, content: { kind: 'text', text: 'optimum' } } : c)) });
     await view(page2, 'compare');
@@ -160,7 +149,7 @@ describeInBrowser('task pane: what-if', () => {
   });
 
   test('the demo’s invented study results fill every demo analyte; the menu counts the tiers met', async () => {
-    const { context, page } = await openPane(browser, server.url);
+    const { context, page } = await open();
     await view(page, 'compare');
     await page.click('#use-demo-observed');
     const n = demoTable().rows.length;
@@ -174,7 +163,7 @@ describeInBrowser('task pane: what-if', () => {
   });
 
   test('a 1,000-analyte sheet: what-if in under 200 ms of script time', async () => {
-    const { context, page } = await openPane(browser, server.url, { height: 900 });
+    const { context, page } = await open({ height: 900 });
     const rand = mulberry32(1000);
     const lines = ['analyte,specimen,unit,cvi,cvg,source'];
     const rows: unknown[][] = [['Analyte', 'Specimen', 'Bias %', 'CV %']];
