@@ -304,11 +304,14 @@ export function deming(x: ArrayLike<number>, y: ArrayLike<number>, ratio = 1, co
       intervalNote: 'leaving one pair out leaves x values that are all equal or uncorrelated with y: no jackknife interval',
     };
   }
+  return tInterval('deming', n, confidence, slope, intercept, jackknifeSe(bs), jackknifeSe(as));
+}
+
+/** A fit with intervals estimate ± t₍1−α/2, n−2₎·SE for slope and intercept. */
+function tInterval(method: 'deming' | 'ols', n: number, confidence: number, slope: number, intercept: number, seB: number, seA: number): LineFit {
   const t = tQuantile((1 + confidence) / 2, n - 2);
-  const seB = jackknifeSe(bs);
-  const seA = jackknifeSe(as);
   return {
-    method: 'deming',
+    method,
     n,
     confidence,
     slope,
@@ -339,20 +342,7 @@ export function ordinaryLeastSquares(x: ArrayLike<number>, y: ArrayLike<number>,
   }
   rss = Math.max(0, rss - (rs * rs) / n);
   const s = Math.sqrt(rss / (n - 2));
-  const seB = s / Math.sqrt(m.sxx);
-  const seA = s * Math.sqrt(1 / n + (m.mx * m.mx) / m.sxx);
-  const t = tQuantile((1 + confidence) / 2, n - 2);
-  return {
-    method: 'ols',
-    n,
-    confidence,
-    slope,
-    intercept,
-    slopeLow: slope - t * seB,
-    slopeHigh: slope + t * seB,
-    interceptLow: intercept - t * seA,
-    interceptHigh: intercept + t * seA,
-  };
+  return tInterval('ols', n, confidence, slope, intercept, s / Math.sqrt(m.sxx), s * Math.sqrt(1 / n + (m.mx * m.mx) / m.sxx));
 }
 
 /** Runs the chosen estimator; `ratio` is used by Deming only. */
