@@ -65,6 +65,10 @@ describe('generated functions.json', () => {
     }
   });
 
+  test('each function\'s help names its source: a publication year, a standard, or "common practice"', () => {
+    for (const m of meta) expect([m.id, /\b(19|20)\d\d\b|common practice|Nordtest|ISO|CLSI/i.test(m.description ?? '')]).toEqual([m.id, true]);
+  });
+
   test('the optional parameters state their default in the help', () => {
     for (const f of FUNCTIONS) {
       const m = meta.find((x) => x.id === f.name)!;
