@@ -25,6 +25,22 @@ export interface ActiveSheet {
   readonly activeRow: number;
 }
 
+/** The active cell as Excel shows it. */
+export interface ActiveCell {
+  readonly sheet: string;
+  /** Without the sheet, e.g. "J7". */
+  readonly address: string;
+  /** The formula as Excel shows it ("" or the value for a plain cell). */
+  readonly formula: string;
+  readonly value: GridCell;
+}
+
+/** A reference to read: sheet null means the active sheet. */
+export interface RangeRef {
+  readonly sheet: string | null;
+  readonly address: string;
+}
+
 /** One summary row (issue 7): what the pane computed for one analyte. */
 export interface SummaryRow {
   readonly analyte: string;
@@ -82,6 +98,9 @@ export interface PaneHost {
   readonly available: boolean;
   readSelection(): Promise<CellGrid>;
   readActiveSheet(): Promise<ActiveSheet>;
+  readActiveCell(): Promise<ActiveCell>;
+  /** The values of several ranges, in one batch, in the order asked. */
+  readRanges(refs: readonly RangeRef[]): Promise<GridCell[][][]>;
   /** Names of the workbook's sheets (to keep a new sheet's name unique). */
   sheetNames(): Promise<string[]>;
   /** The active sheet and selection, read before a fill into a range or template. */
@@ -105,6 +124,8 @@ export function noWorkbookHost(why: string): PaneHost {
     available: false,
     readSelection: refuse,
     readActiveSheet: refuse,
+    readActiveCell: refuse,
+    readRanges: refuse,
     sheetNames: refuse,
     readTarget: refuse,
     writeFill: refuse,

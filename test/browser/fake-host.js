@@ -104,6 +104,27 @@
         activeRow: wb.activeRow,
       };
     }),
+    readActiveCell: () => call('readActiveCell', null, () => {
+      const a = wb.activeCell || { sheet: wb.active, address: 'A1' };
+      const v = wb.cell(a.sheet, a.address);
+      return { sheet: a.sheet, address: a.address, formula: v ? (v.formula || String(v.value)) : '', value: v ? v.value : null };
+    }),
+    readRanges: (refs) => call('readRanges', refs, () => refs.map((r) => {
+      const sheet = r.sheet || wb.active;
+      const [from, to] = r.address.split(':');
+      const a = parseCell(from);
+      const b = to ? parseCell(to) : a;
+      const out = [];
+      for (let row = a.row; row <= b.row; row++) {
+        const line = [];
+        for (let col = a.col; col <= b.col; col++) {
+          const v = wb.sheets[sheet] && wb.sheets[sheet].get(key(row, col));
+          line.push(v ? v.value : '');
+        }
+        out.push(line);
+      }
+      return out;
+    })),
     sheetNames: () => call('sheetNames', null, () => wb.order.slice()),
     readTarget: () => call('readTarget', null, () => {
       const u = used(wb.active, true);

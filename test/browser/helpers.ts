@@ -56,12 +56,16 @@ export async function setCells(page: Page, sheet: string, row: number, col: numb
   await page.evaluate(([s, r, c, v]) => (window as unknown as { fakeWorkbook: { setCells: (...a: unknown[]) => void } }).fakeWorkbook.setCells(s, r, c, v), [sheet, row, col, rows] as const);
 }
 
-export async function setActive(page: Page, o: { sheet?: string; activeRow?: number; selection?: { row: number; col: number; rows: number; cols: number } }): Promise<void> {
+export async function setActive(
+  page: Page,
+  o: { sheet?: string; activeRow?: number; selection?: { row: number; col: number; rows: number; cols: number }; activeCell?: { sheet: string; address: string } },
+): Promise<void> {
   await page.evaluate((x) => {
     const wb = (window as unknown as { fakeWorkbook: Record<string, unknown> }).fakeWorkbook;
     if (x.sheet) wb.active = x.sheet;
     if (x.activeRow) wb.activeRow = x.activeRow;
     if (x.selection) wb.selection = x.selection;
+    if (x.activeCell) wb.activeCell = x.activeCell;
   }, o);
 }
 

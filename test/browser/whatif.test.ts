@@ -6,6 +6,7 @@
  */
 import type { Page } from 'playwright-core';
 import { describeInBrowser, usePane } from './harness';
+import { evaluate } from '../../src/registry';
 import { view, setCells, setActive, lastCall, screenshot, statusText, tempCsv, importAndAccept } from './helpers';
 import { demoTable } from '../../src/engine/demo';
 import { tierTable } from '../../src/engine/spec';
@@ -191,6 +192,31 @@ describeInBrowser('task pane: what-if', () => {
     console.log(`what-if, 1,000 analytes: open view ${openMs.toFixed(1)} ms; read sheet + compute + render ${sheetMs} ms (table render ${renderMs} ms)`);
     expect(openMs).toBeLessThan(200);
     expect(sheetMs).toBeLessThan(200);
+    await context.close();
+  });
+
+  test('"Explain the active cell" shows the message Excel keeps no room for (#DIV/0! from a zero CV)', async () => {
+    const { context, page } = await open();
+    // Columns as a user types them: allowable, bias, CV, then the sigma formula in D2.
+    await setCells(page, 'Sheet1', 1, 1, [
+      ['TEa %', 'Bias %', 'CV %', 'Sigma'],
+      [6.94, 1.2, 0, '=LEEWAY.PERF.SIGMA(A2,B2,C2)'],
+    ]);
+    await setActive(page, { sheet: 'Sheet1', activeCell: { sheet: 'Sheet1', address: 'D2' } });
+    await view(page, 'compare');
+    await page.click('#explain-cell');
+    await page.waitForSelector('#explain-message');
+    const want = evaluate('PERF.SIGMA', [6.94, 1.2, 0])[0][0] as { error: string; message: string };
+    expect(await page.textContent('#explain-message')).toBe(`${want.error} ${want.message}`);
+    expect(await page.textContent('#explain-message')).toMatch(/^#DIV\/0! cv must not be zero/);
+    const reads = await page.evaluate(() => (window as unknown as { fakeWorkbook: { log: Array<{ name: string; args: unknown }> } }).fakeWorkbook.log.filter((l) => l.name === 'readRanges'));
+    expect(reads[reads.length - 1].args).toEqual([
+      { sheet: null, address: 'A2' },
+      { sheet: null, address: 'B2' },
+      { sheet: null, address: 'C2' },
+    ]);
+    await page.locator('#explain-cell-box').scrollIntoViewIfNeeded();
+    await screenshot(page, 'pane-explain.png');
     await context.close();
   });
 });

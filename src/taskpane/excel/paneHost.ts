@@ -7,7 +7,7 @@ import type { PaneHost } from '../host';
 import { HostError } from '../host';
 import type { ExcelRun, SheetIO } from './sheetio';
 import { createSheetIO, FillWriteError } from './sheetio';
-import { readActiveContext, readActiveSheetGrid } from './read';
+import { readActiveCellOf, readActiveContext, readActiveSheetGrid, readRangesOf } from './read';
 import { writeTierCell } from './tierCell';
 import { writeSummarySheet } from './summary';
 import { uniqueSheetName } from '../../engine/fill';
@@ -37,6 +37,8 @@ export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: S
         return { sheet: r.sheetName, address: r.address, firstRow: r.origin.row, firstColumn: r.origin.col, values: r.values };
       }),
     readActiveSheet: () => guarded(() => run((c) => readActiveSheetGrid(c))),
+    readActiveCell: () => guarded(() => run((c) => readActiveCellOf(c))),
+    readRanges: (refs) => guarded(() => run((c) => readRangesOf(c, refs))),
     sheetNames: () => guarded(() => io.sheetNames()),
     readTarget: () =>
       guarded(async () => {

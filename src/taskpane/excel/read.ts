@@ -4,7 +4,7 @@
  * (observed bias/CV, the tier cell of a filled sheet), and the active sheet's name with the
  * selection (the start of a fill into the selected range).
  */
-import type { ActiveSheet, CellGrid, TargetSheet } from '../host';
+import type { ActiveCell, ActiveSheet, CellGrid, RangeRef, TargetSheet } from '../host';
 import type { GridCell } from '../../engine/table';
 
 function cells(values: unknown[][]): GridCell[][] {
@@ -35,3 +35,30 @@ export async function readActiveContext(context: Excel.RequestContext): Promise<
   return { sheet: sheet.name, selection: { row: sel.rowIndex + 1, col: sel.columnIndex + 1, rows: sel.rowCount, cols: sel.columnCount, address: sel.address } };
 }
 
+/** The active cell's sheet, address, formula and value (one load, one sync). */
+export async function readActiveCellOf(context: Excel.RequestContext): Promise<ActiveCell> {
+  const cell = context.workbook.getActiveCell();
+  const sheet = cell.worksheet;
+  cell.load(['address', 'formulas', 'values']);
+  sheet.load('name');
+  await context.sync();
+  const formula = cell.formulas[0][0];
+  return {
+    sheet: sheet.name,
+    address: cell.address.includes('!') ? cell.address.slice(cell.address.lastIndexOf('!') + 1) : cell.address,
+    formula: typeof formula === 'string' ? formula : String(formula ?? ''),
+    value: cells(cell.values)[0][0],
+  };
+}
+
+/** The values of several ranges in one batch (sheet null: the active sheet). */
+export async function readRangesOf(context: Excel.RequestContext, refs: readonly RangeRef[]): Promise<GridCell[][][]> {
+  const active = context.workbook.worksheets.getActiveWorksheet();
+  const ranges = refs.map((r) => {
+    const range = (r.sheet ? context.workbook.worksheets.getItem(r.sheet) : active).getRange(r.address);
+    range.load('values');
+    return range;
+  });
+  await context.sync();
+  return ranges.map((r) => cells(r.values));
+}

@@ -21,6 +21,8 @@ import { readActiveRow, readAllRows, findTierCell } from '../sheetRows';
 import { readTier } from '../../engine/tiers';
 import { DEMO_MARKER } from '../../engine/caution';
 import { TIER_CELL_LABEL } from '../../engine/fill';
+import { explain, parseLeewayCall, referencesOf, refKey } from '../explain';
+import type { Grid } from '../../registry/types';
 import { demoObserved } from '../demo';
 
 function inputOf(r: VariationRow, z: number, obs: { bias: number; cv: number } | null) {
@@ -403,7 +405,45 @@ export function compareView(ctx: PaneContext): View {
     );
   }
 
-  root.append(pickBox, detail, tierBox, menu);
+  // ---- why a cell shows an error (Excel keeps no message with #NUM! or #DIV/0!) --------------
+  const explainBox = h('div', { class: 'explain', id: 'explain-cell-box' });
+  const explainOut = h('div', { id: 'explain-result', role: 'status', 'aria-live': 'polite' });
+  const explainButton = h('button', { type: 'button', id: 'explain-cell' }, 'Explain the active cell');
+  explainButton.addEventListener('click', () => {
+    void (async () => {
+      try {
+        ctx.status('Reading the active cell…', 'busy');
+        const cell = await ctx.host.readActiveCell();
+        const where = `${cell.sheet}!${cell.address}`;
+        const call = parseLeewayCall(cell.formula);
+        if (!call) {
+          replace(explainOut, h('p', {}, `${where} holds no single LEEWAY formula${cell.formula ? ` (${cell.formula})` : ''}.`));
+          ctx.status(`Nothing to explain in ${where}.`, 'ok');
+          return;
+        }
+        const refs = referencesOf(call);
+        const grids = refs.length ? await ctx.host.readRanges(refs) : [];
+        const values = new Map<string, Grid>(refs.map((r, i) => [refKey(r.sheet, r.address), grids[i] as Grid]));
+        const e = explain(call, values);
+        replace(
+          explainOut,
+          h('p', { class: 'explain-formula' }, `${where}: ${cell.formula}`),
+          h('p', { class: e.isError ? 'explain-error' : 'ok', id: 'explain-message' }, e.message),
+        );
+        ctx.status(e.isError ? `${where}: ${e.message}` : `${where} shows no error.`, e.isError ? 'error' : 'ok');
+      } catch (err) {
+        ctx.status(err instanceof Error ? err.message : String(err), 'error');
+      }
+    })();
+  });
+  explainBox.append(
+    h('h2', { id: 'explain-h' }, 'Why does a cell show an error?'),
+    h('p', { class: 'hint' }, 'Excel shows Leeway’s message with #VALUE! and #N/A only. Select a cell with a LEEWAY formula and the pane reads its inputs and says what to fix.'),
+    h('div', { class: 'actions' }, explainButton),
+    explainOut,
+  );
+
+  root.append(pickBox, detail, tierBox, menu, explainBox);
   return {
     root,
     refresh() {
