@@ -106,6 +106,7 @@ async function main() {
   }
   const demo = path.join(root, 'out', 'leeway-demo.xlsx');
   try {
+    fs.mkdirSync(path.dirname(demo), { recursive: true });
     run(process.execPath, [path.join(root, 'bin', 'leeway.js'), 'demo', '--out', demo, '--force'], 'building the demo workbook (invented data)');
     say(`  demo workbook: ${demo}`);
   } catch {

@@ -1,5 +1,6 @@
 /** npm start (scripts/start.js) on this Linux machine: serves the built add-in over HTTPS and says plainly that it cannot sideload. */
 import { spawnSync } from 'child_process';
+import * as fs from 'fs';
 import * as path from 'path';
 
 test('npm start serves every page over HTTPS, says it cannot sideload here, and never waits for input', () => {
@@ -10,6 +11,10 @@ test('npm start serves every page over HTTPS, says it cannot sideload here, and 
     input: '', // stdin closed: nothing may wait for it
   });
   expect(r.status).toBe(0);
+  // The main job on the demo data: the workbook is written and its place is said.
+  const demo = path.join(__dirname, '..', 'out', 'leeway-demo.xlsx');
+  expect(r.stdout).toContain(`demo workbook: ${demo}`);
+  expect(fs.existsSync(demo)).toBe(true);
   expect(r.stdout).toMatch(new RegExp(`serving the add-in at https://localhost:${port}/`));
   for (const page of ['taskpane.html', 'functions.json', 'functions.js', 'commands.html', 'assets/office-js/office.js']) {
     expect(r.stdout).toContain(`${page}: 200`);
