@@ -96,3 +96,19 @@ describe('the Excel PaneHost', () => {
     expect(err.message).toBe('Excel refused the request: The requested resource doesn\u2019t exist. (at Worksheet.getItem)');
   });
 });
+
+describe('header notes and the Excel version', () => {
+  const g = globalThis as unknown as { Office?: unknown };
+  afterEach(() => {
+    delete g.Office;
+  });
+
+  test('notes are written only where ExcelApi 1.18 is supported; elsewhere the fill goes without them', async () => {
+    const { supportedNotes } = await import('../../src/taskpane/excel/paneHost');
+    expect(supportedNotes()).toBe('none'); // no Office at all
+    g.Office = { context: { requirements: { isSetSupported: (set: string, v: string) => set === 'ExcelApi' && Number(v) <= 1.17 } } };
+    expect(supportedNotes()).toBe('none');
+    g.Office = { context: { requirements: { isSetSupported: (set: string, v: string) => set === 'ExcelApi' && Number(v) <= 1.18 } } };
+    expect(supportedNotes()).toBe('notes');
+  });
+});

@@ -27,7 +27,19 @@ async function guarded<T>(f: () => Promise<T>): Promise<T> {
   }
 }
 
-export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: SheetIO = createSheetIO(run)): PaneHost {
+/**
+ * Worksheet notes (the fill's header notes) need ExcelApi 1.18; on an older Excel the fill goes
+ * without them rather than failing — in a live fill the formulas are in the cells anyway.
+ */
+export function supportedNotes(): 'notes' | 'none' {
+  try {
+    return typeof Office !== 'undefined' && Office.context?.requirements?.isSetSupported('ExcelApi', '1.18') ? 'notes' : 'none';
+  } catch {
+    return 'none';
+  }
+}
+
+export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: SheetIO = createSheetIO(run, { notes: supportedNotes() })): PaneHost {
   return {
     label: 'Excel',
     available: true,
