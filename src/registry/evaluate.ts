@@ -3,8 +3,9 @@
  * back as an ErrorCell, and no NaN or ±Infinity ever reaches an output cell.
  *
  * Hot path: a worksheet calls an elementwise function once per cell with 1×1 arguments, so that
- * case skips the grid machinery; numbers that need no check are taken as they are; defaults are
- * coerced once per parameter, not once per call.
+ * case (compile's single-cell path) skips the grid machinery; numbers that need no check are taken
+ * as they are; defaults are coerced once per parameter, not once per call. Everything else takes
+ * the grid path, which gives the same [[value]] for single cells.
  */
 import { LeewayError, valueError } from '../engine/errors';
 import { asGrid, coerceCell, errorCell, isBlankFor } from './coerce';
@@ -23,9 +24,14 @@ function outValue(v: number | string | boolean): OutCell {
   return v;
 }
 
-/** A marker class so an error can travel through coerced-argument arrays and be told apart cheaply. */
-class Failed {
-  constructor(readonly cell: ErrorCell) {}
+/** Marks a coerced argument that is not a value: an error (Failed), or a range where one cell was expected. */
+class Marker {}
+
+/** An error travelling through coerced arguments, told apart from values cheaply. */
+class Failed extends Marker {
+  constructor(readonly cell: ErrorCell) {
+    super();
+  }
 }
 
 /** The coerced default of an optional parameter (params.ts computes it once, when the parameter is defined). */
@@ -42,66 +48,6 @@ function coerceOne(v: Scalar, p: ParamDef): unknown {
   } catch (e) {
     return new Failed(fail(e));
   }
-}
-
-function callWith(fn: (...a: unknown[]) => number | string | boolean, a: unknown[]): OutCell {
-  try {
-    switch (a.length) {
-      case 1:
-        return outValue(fn(a[0]));
-      case 2:
-        return outValue(fn(a[0], a[1]));
-      case 3:
-        return outValue(fn(a[0], a[1], a[2]));
-      case 4:
-        return outValue(fn(a[0], a[1], a[2], a[3]));
-      default:
-        return outValue(fn(...a));
-    }
-  } catch (e) {
-    return fail(e);
-  }
-}
-
-/** Marks a range where one cell was expected. */
-const NOT_SINGLE = {};
-
-/** Scratch argument arrays by arity, reused by the single-cell path (engine calls never re-enter it). */
-const SCRATCH: unknown[][] = [];
-
-/**
- * The single-cell path: every argument omitted, a scalar or a 1×1 grid (how Excel calls a
- * function typed in one cell). Returns NOT_SINGLE as soon as an argument is a larger range, so
- * the caller takes the grid path instead.
- */
-function evaluateSingle(def: ElementwiseDef, args: readonly Arg[]): OutCell | typeof NOT_SINGLE {
-  const params = def.params;
-  const n = params.length;
-  const vals = SCRATCH[n] ?? (SCRATCH[n] = new Array(n));
-  let bad: ErrorCell | undefined;
-  for (let i = 0; i < n; i++) {
-    const p = params[i];
-    const a = args[i];
-    let v: unknown;
-    if (a === null || a === undefined) {
-      if (!p.optional) {
-        bad = bad ?? { error: '#N/A', message: `${p.name} is required` };
-        continue;
-      }
-      v = defaultOf(p);
-    } else if (Array.isArray(a)) {
-      if (a.length !== 1) return NOT_SINGLE;
-      const row = a[0];
-      if (!Array.isArray(row) || row.length !== 1) return NOT_SINGLE;
-      v = coerceOne(row[0], p);
-    } else {
-      v = coerceOne(a, p);
-    }
-    if (v instanceof Failed) bad = bad ?? v.cell;
-    else vals[i] = v;
-  }
-  if (bad) return bad;
-  return callWith(def.fn as (...a: unknown[]) => number | string, vals);
 }
 
 /**
@@ -194,10 +140,6 @@ function evaluateDef(def: FunctionDef, args: readonly Arg[], elementwise?: (grid
     if (args.length > def.params.length) {
       throw valueError(`${def.name} takes at most ${def.params.length} arguments (got ${args.length})`);
     }
-    if (def.kind === 'elementwise') {
-      const v = evaluateSingle(def, args);
-      if (v !== NOT_SINGLE) return [[v as OutCell]];
-    }
     const grids: Array<Grid | undefined> = def.params.map((p, i) => {
       const g = asGrid(args[i]);
       if (g === undefined && !p.optional) {
@@ -221,13 +163,6 @@ export interface Evaluator {
   at(a0?: Arg, a1?: Arg, a2?: Arg, a3?: Arg, rest?: readonly Arg[]): Output;
 }
 
-/** Marks a coerced argument that is not a value: an error, or a range on the single-cell path. */
-class Marker {}
-class FailedArg extends Marker {
-  constructor(readonly cell: ErrorCell) {
-    super();
-  }
-}
 const RANGE_ARG = new Marker();
 
 function isMarker(v: unknown): v is Marker {
@@ -236,7 +171,7 @@ function isMarker(v: unknown): v is Marker {
 
 /** One parameter's coercer for the single-cell path, with its default and checks bound in. */
 function singleCoercer(p: ParamDef): (a: Arg) => unknown {
-  const missing = p.optional ? defaultOf(p) : new FailedArg({ error: '#N/A', message: `${p.name} is required` });
+  const missing = p.optional ? defaultOf(p) : new Failed({ error: '#N/A', message: `${p.name} is required` });
   const plainNumber = p.type === 'number' && p.check === undefined;
   return (a) => {
     if (a === null || a === undefined) return missing;
@@ -248,8 +183,7 @@ function singleCoercer(p: ParamDef): (a: Arg) => unknown {
       v = row[0];
     }
     if (plainNumber && typeof v === 'number' && v - v === 0) return v;
-    const c = coerceOne(v, p);
-    return c instanceof Failed ? new FailedArg(c.cell) : c;
+    return coerceOne(v, p);
   };
 }
 
@@ -294,7 +228,7 @@ export function compile(def: FunctionDef, mapError?: (e: ErrorCell) => unknown):
     const v3 = c3(a3);
     if (isMarker(v0) || isMarker(v1) || isMarker(v2) || isMarker(v3)) {
       if (v0 === RANGE_ARG || v1 === RANGE_ARG || v2 === RANGE_ARG || v3 === RANGE_ARG) return full(argList(a0, a1, a2, a3, rest));
-      for (const v of [v0, v1, v2, v3]) if (v instanceof FailedArg) return [[mapped(v.cell) as OutCell]];
+      for (const v of [v0, v1, v2, v3]) if (v instanceof Failed) return [[mapped(v.cell) as OutCell]];
     }
     let out: unknown;
     try {
