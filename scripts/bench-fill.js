@@ -19,18 +19,12 @@ export { parseTableText, acceptImport } from './src/engine/table';
 export { planFill } from './src/engine/fill';
 export { main } from './src/cli/main';
 export { createSheetIO } from './src/taskpane/excel';
+export { mulberry32 } from './src/engine/demo/random';
 `;
 const L = loadSources(entry, 'bench-fill-entry');
 
 function csv(n, seed) {
-  let a = seed >>> 0;
-  const rand = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const rand = L.mulberry32(seed);
   const lines = ['analyte;specimen;unit;cvi;cvg;source;limit_abs;limit_pct;level;note'];
   for (let i = 0; i < n; i++) {
     const cvi = (0.5 + rand() * 30).toFixed(2).replace('.', ',');

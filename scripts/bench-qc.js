@@ -14,8 +14,9 @@ export { evaluate } from './src/registry';
 export { clearQcCaches } from './src/engine/qc/power';
 export { planQc, QC_CANDIDATES } from './src/engine/qc/plan';
 export { detectionProbability } from './src/engine/qc/power';
+export { mulberry32 } from './src/engine/demo/random';
 `;
-const { evaluate, clearQcCaches, planQc, QC_CANDIDATES, detectionProbability } = loadSources(entry, 'bench-qc-entry');
+const { evaluate, clearQcCaches, planQc, QC_CANDIDATES, detectionProbability, mulberry32 } = loadSources(entry, 'bench-qc-entry');
 
 const now = () => Number(process.hrtime.bigint()) / 1e6;
 function median(xs) {
@@ -80,14 +81,7 @@ for (let rep = 0; rep < 9; rep++) {
 }
 
 // 300 invented analytes (seed 4242): allowable 3–30 %, bias ±2 %, CV 0.5–6 %.
-let a = 4242;
-const rand = () => {
-  a = (a + 0x6d2b79f5) >>> 0;
-  let t = a;
-  t = Math.imul(t ^ (t >>> 15), t | 1);
-  t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-  return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-};
+const rand = mulberry32(4242);
 const sheet = [];
 for (let i = 0; i < 300; i++) sheet.push([3 + 27 * rand(), -2 + 4 * rand(), 0.5 + 5.5 * rand()]);
 clearQcCaches();

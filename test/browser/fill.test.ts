@@ -8,7 +8,7 @@
 import * as path from 'path';
 import type { Page } from 'playwright-core';
 import { describeInBrowser, usePane } from './harness';
-import { importAndAccept, view, FIXTURES, setCells, setActive, lastCall, screenshot, statusText, log } from './helpers';
+import { importAndAccept, view, FIXTURES, setCells, setActive, lastCall, screenshot, statusText, log, checkAndFill } from './helpers';
 import { planFill } from '../../src/engine/fill';
 import type { FillPlan } from '../../src/engine/fill';
 import { demoTable } from '../../src/engine/demo';
@@ -85,10 +85,7 @@ describeInBrowser('task pane: choosing and filling', () => {
     expect(errors).toEqual([]);
 
     // A second fill goes to a new sheet with a name not yet taken.
-    await page.click('#check-fill');
-    await page.waitForSelector('#run-fill');
-    await page.click('#run-fill');
-    await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Filled'));
+    await checkAndFill(page);
     expect((await lastCall<FillPlan>(page, 'writeFill')).sheetName).toBe('Specifications (2)');
     await context.close();
   });
@@ -174,10 +171,7 @@ describeInBrowser('task pane: choosing and filling', () => {
     const { context, page } = await open();
     await importAndAccept(page, path.join(FIXTURES, 'markup.csv'));
     await view(page, 'fill');
-    await page.click('#check-fill');
-    await page.waitForSelector('#run-fill');
-    await page.click('#run-fill');
-    await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Filled'));
+    await checkAndFill(page);
     const plan = await lastCall<FillPlan>(page, 'writeFill');
     const cell = plan.cells.find((c) => c.content.kind === 'text' && c.content.text.startsWith('=HYPERLINK'));
     expect(cell).toBeDefined();

@@ -21,6 +21,14 @@ export async function log(page: Page): Promise<LogEntry[]> {
   return page.evaluate(() => (window as unknown as { fakeWorkbook: { log: LogEntry[] } }).fakeWorkbook.log);
 }
 
+/** Fill view: check the fill, run it, and wait until the pane reports it filled. */
+export async function checkAndFill(page: Page): Promise<void> {
+  await page.click('#check-fill');
+  await page.waitForSelector('#run-fill');
+  await page.click('#run-fill');
+  await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Filled'));
+}
+
 export async function lastCall<T>(page: Page, name: string): Promise<T> {
   const entries = (await log(page)).filter((e) => e.name === name);
   if (!entries.length) throw new Error(`no ${name} call in the fake workbook's log`);

@@ -7,7 +7,7 @@
 import type { Page } from 'playwright-core';
 import { describeInBrowser, usePane } from './harness';
 import { evaluate } from '../../src/registry';
-import { view, setCells, setActive, lastCall, screenshot, statusText, tempCsv, importAndAccept } from './helpers';
+import { view, setCells, setActive, lastCall, screenshot, statusText, tempCsv, importAndAccept, checkAndFill } from './helpers';
 import { demoTable } from '../../src/engine/demo';
 import { tierTable } from '../../src/engine/spec';
 import { observedTotalError, sigmaMetric, allowanceShare, tierMet } from '../../src/engine/perf';
@@ -113,10 +113,7 @@ describeInBrowser('task pane: what-if', () => {
     await view(page, 'compare');
     expect(await page.isDisabled('#apply-tier')).toBe(true);
     await view(page, 'fill');
-    await page.click('#check-fill');
-    await page.waitForSelector('#run-fill');
-    await page.click('#run-fill');
-    await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Filled'));
+    await checkAndFill(page);
     const plan = await lastCall<FillPlan>(page, 'writeFill');
     await view(page, 'compare');
     expect(await page.textContent('#tier-cell')).toContain(`tier cell ${plan.tierCell} (now desirable)`);
