@@ -1,18 +1,29 @@
-/* Builds the add-in: one entry per surface (custom functions, task pane, commands), functions.json
- * generated from the JSDoc of src/functions/*.ts, and office.js copied from @microsoft/office-js
- * so the add-in loads only its own assets (no CDN). `ADDIN_ORIGIN` sets the served origin. */
+/* Builds the add-in: one entry per surface (custom functions, task pane, commands); functions.json
+ * and one help page per function generated from the function catalogue (src/registry); office.js
+ * copied from @microsoft/office-js so the add-in loads only its own assets (no CDN). The origin of
+ * the help links is the one manifest.xml serves functions.json from. */
 'use strict';
 const path = require('path');
-const fs = require('fs');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
-const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
+const { addinOrigin, loadCatalogue } = require('./scripts/lib/catalogue');
 
-const functionFiles = fs
-  .readdirSync(path.join(__dirname, 'src', 'functions'))
-  .filter((f) => f.endsWith('.ts') && f !== 'adapter.ts')
-  .sort()
-  .map((f) => `./src/functions/${f}`);
+/** Emits functions.json and help/*.html from the catalogue, read afresh on every build. */
+class CatalogueAssetsPlugin {
+  apply(compiler) {
+    const { RawSource } = compiler.webpack.sources;
+    compiler.hooks.thisCompilation.tap('CatalogueAssets', (compilation) => {
+      compilation.hooks.processAssets.tap({ name: 'CatalogueAssets', stage: compiler.webpack.Compilation.PROCESS_ASSETS_STAGE_ADDITIONAL }, () => {
+        const c = loadCatalogue();
+        compilation.emitAsset('functions.json', new RawSource(JSON.stringify(c.functionsJson(addinOrigin()), null, 2) + '\n'));
+        compilation.emitAsset('help/index.html', new RawSource(c.helpIndex()));
+        compilation.emitAsset('help/help.css', new RawSource(c.HELP_CSS));
+        for (const def of c.FUNCTIONS) compilation.emitAsset(c.helpPath(def), new RawSource(c.helpPage(def)));
+      });
+      compilation.fileDependencies.add(path.join(__dirname, 'src', 'registry'));
+    });
+  }
+}
 
 // Office's own script files for Excel (other hosts and debug builds left out).
 const OFFICE_SKIP = /^(access|onenote|outlook|outlookwebapp|powerpoint|project|visio|word)[-.]|\.debug\.js$|\.d\.ts$|vsdoc/;
@@ -23,7 +34,7 @@ module.exports = (env, argv) => {
     mode: dev ? 'development' : 'production',
     devtool: dev ? 'source-map' : false,
     entry: {
-      functions: functionFiles,
+      functions: './src/functions/index.ts',
       taskpane: './src/taskpane/index.ts',
       commands: './src/commands/commands.ts',
     },
@@ -42,7 +53,7 @@ module.exports = (env, argv) => {
     },
     performance: { hints: false },
     plugins: [
-      new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: functionFiles }),
+      new CatalogueAssetsPlugin(),
       new HtmlWebpackPlugin({ filename: 'functions.html', template: './src/functions/functions.html', chunks: ['functions'] }),
       new HtmlWebpackPlugin({ filename: 'taskpane.html', template: './src/taskpane/taskpane.html', chunks: ['taskpane'] }),
       new HtmlWebpackPlugin({ filename: 'commands.html', template: './src/commands/commands.html', chunks: ['commands'] }),

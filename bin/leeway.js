@@ -28,8 +28,4 @@ if (stale()) {
     stdio: ['ignore', 'ignore', 'inherit'],
   });
 }
-require(bundle)
-  .main(process.argv.slice(2))
-  .then((code) => {
-    process.exitCode = code;
-  });
+require(bundle).runCli(process.argv.slice(2));

@@ -50,6 +50,15 @@ function closeToShown(value: unknown, shown: string): void {
 }
 
 describe('README function table', () => {
+  test('is the one the function catalogue gives, as are docs/reference/functions (npm run docs)', () => {
+    // eslint-disable-next-line @typescript-eslint/no-require-imports
+    const { generated } = require('../scripts/docs.js') as { generated: () => { files: Map<string, string> } };
+    for (const [file, text] of generated().files) {
+      const now = fs.existsSync(file) ? fs.readFileSync(file, 'utf8') : '(missing)';
+      expect([path.relative(path.join(__dirname, '..'), file), now === text]).toEqual([path.relative(path.join(__dirname, '..'), file), true]);
+    }
+  });
+
   test('lists every worksheet function', () => {
     const listed = new Set(rows.map((m) => m[1]));
     for (const f of FUNCTIONS) expect(listed.has(f.name) ? f.name : `missing ${f.name}`).toBe(f.name);

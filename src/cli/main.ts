@@ -4,7 +4,8 @@
  */
 import * as readline from 'readline';
 import { callFunction, CallResult, parseCliArg, UsageError } from './call';
-import { FUNCTIONS, NAMESPACE } from '../registry';
+import { findFunction, NAMESPACE } from '../registry';
+import { helpLines, listLines } from '../registry/metadata';
 import { VERSION } from '../engine/version';
 import { fillCommand, FILL_USAGE } from './fill';
 import { checkCommand, CHECK_USAGE } from './check';
@@ -15,7 +16,8 @@ const USAGE = `leeway ${VERSION} — laboratory quality specifications, performa
 Usage:
   leeway call FUNCTION [ARG ...]   evaluate one worksheet function (with or without the ${NAMESPACE}. prefix)
   leeway call --lines              read ["FUNCTION", arg, ...] per line on stdin, write one JSON result per line
-  leeway list                      list the worksheet functions and their parameters
+  leeway list                      list the worksheet functions, their parameters and what each gives
+  leeway help FUNCTION             one function's help: formula, arguments, defaults, example, sources
 ${FILL_USAGE}
 ${CHECK_USAGE}
 ${DEMO_USAGE}
@@ -79,9 +81,19 @@ async function callLines(): Promise<number> {
 }
 
 function list(io: Io): number {
-  for (const f of FUNCTIONS) {
-    io.out(`${NAMESPACE}.${f.name}(${f.params.map((p) => (p.optional ? `[${p.name}]` : p.name)).join(', ')})`);
+  for (const line of listLines()) io.out(line);
+  return 0;
+}
+
+function help(args: string[], io: Io): number {
+  if (args.length === 0) {
+    io.out(USAGE);
+    return 0;
   }
+  if (args.length > 1) throw new UsageError('help takes one function name: leeway help SPEC.TOTAL');
+  const def = findFunction(args[0]);
+  if (!def) throw new UsageError(`no worksheet function "${args[0]}" (leeway list shows them all)`);
+  for (const line of helpLines(def)) io.out(line);
   return 0;
 }
 
@@ -90,10 +102,7 @@ export type Command = (args: string[], io: Io) => Promise<number> | number;
 /** Further commands (fill, demo, check, …) register here. */
 export const COMMANDS: Record<string, Command> = {
   list: (_a, io) => list(io),
-  help: (_a, io) => {
-    io.out(USAGE);
-    return 0;
-  },
+  help,
   call: async (args, io) => {
     if (args[0] === '--lines') {
       if (args.length > 1) throw new UsageError('call --lines takes no further arguments');
@@ -131,8 +140,21 @@ export async function main(argv: string[], io: Io = stdio): Promise<number> {
   }
 }
 
-if (require.main === module) {
-  main(process.argv.slice(2)).then((code) => {
+/** The reader of our output went away (`leeway list | head -1`): stop quietly, nothing failed. */
+function quietOnClosedPipe(stream: NodeJS.WriteStream): void {
+  stream.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code === 'EPIPE') process.exit(0);
+    throw e;
+  });
+}
+
+/** The command as the `leeway` program runs it: exit status set, a closed pipe ends quietly. */
+export function runCli(argv: string[]): Promise<void> {
+  quietOnClosedPipe(process.stdout);
+  quietOnClosedPipe(process.stderr);
+  return main(argv).then((code) => {
     process.exitCode = code;
   });
 }
+
+if (require.main === module) void runCli(process.argv.slice(2));

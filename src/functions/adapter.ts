@@ -1,7 +1,7 @@
 /**
  * The one place where a registry result becomes what Excel's custom-functions runtime expects:
  * each ErrorCell becomes a CustomFunctions.Error with Excel's code and our message.
- * Only this file touches the CustomFunctions global.
+ * Only this folder touches the CustomFunctions global.
  */
 import { compiledFunction } from '../registry';
 import type { Arg } from '../registry';
@@ -33,14 +33,34 @@ function toExcel(v: ErrorCell): ExcelCell {
   return new CustomFunctions.Error(code);
 }
 
-export type Wrapper = (a0?: Arg, a1?: Arg, a2?: Arg, a3?: Arg, rest?: readonly Arg[]) => ExcelCell[][];
+/** A worksheet function as Excel calls it: one matrix (or null) per declared parameter. */
+export type Wrapper = (...args: Arg[]) => ExcelCell[][];
 
 /**
  * Binds a registered function once, when the functions file loads: its compiled evaluator, with
- * error cells made CustomFunctions.Error as they arise, so a call goes straight to the engine.
+ * error cells made CustomFunctions.Error as they arise, taking exactly `arity` arguments (the
+ * runtime may pass an invocation object after them, which is not an argument of ours).
  */
-export function bind(name: string): Wrapper {
+export function bind(name: string, arity: number): Wrapper {
   const evaluator = compiledFunction(name, toExcel);
   if (!evaluator) throw new Error(`Leeway: no worksheet function ${name} in the registry`);
-  return evaluator.at as unknown as Wrapper;
+  const at = evaluator.at as unknown as (a0?: Arg, a1?: Arg, a2?: Arg, a3?: Arg, rest?: readonly Arg[]) => ExcelCell[][];
+  switch (arity) {
+    case 1:
+      return (a0) => at(a0);
+    case 2:
+      return (a0, a1) => at(a0, a1);
+    case 3:
+      return (a0, a1, a2) => at(a0, a1, a2);
+    case 4:
+      return (a0, a1, a2, a3) => at(a0, a1, a2, a3);
+    case 5:
+      return (a0, a1, a2, a3, a4) => at(a0, a1, a2, a3, [a4]);
+    case 6:
+      return (a0, a1, a2, a3, a4, a5) => at(a0, a1, a2, a3, [a4, a5]);
+    case 7:
+      return (a0, a1, a2, a3, a4, a5, a6) => at(a0, a1, a2, a3, [a4, a5, a6]);
+    default:
+      throw new Error(`Leeway: ${name} has ${arity} parameters; the adapter binds 1 to 7`);
+  }
 }

@@ -1,10 +1,11 @@
 /**
- * Coercion of cell values to the types a parameter wants, with the error SPEC.md section 2
- * prescribes for each kind of bad input.
+ * Coercion of cell values to the types a parameter wants, with the error each kind of bad input
+ * gets (the project's error rules: docs/reference/conventions.md).
  */
 import { LeewayError, naError, numError, valueError } from '../engine/errors';
 import { show } from '../engine/guards';
-import type { ErrorCell, Grid, ParamDef, Scalar } from './types';
+import type { AnyParam } from './define';
+import type { ErrorCell, Grid, Scalar } from './types';
 
 export function isBlank(v: Scalar): v is null | undefined | '' {
   return v === null || v === undefined || v === '';
@@ -41,22 +42,24 @@ export function toWord(v: Scalar, name: string): string {
 }
 
 /** Blank for this parameter: an empty cell, or (for a word) text of spaces only. */
-export function isBlankFor(v: Scalar, p: ParamDef): boolean {
-  return isBlank(v) || (p.type === 'word' && typeof v === 'string' && v.trim() === '');
+export function isBlankFor(v: Scalar, p: AnyParam): boolean {
+  return isBlank(v) || (p.kind === 'word' && typeof v === 'string' && v.trim() === '');
 }
 
-/** Coerces one cell for one parameter (defaults for blank optional cells). */
-export function coerceCell(v: Scalar, p: ParamDef): unknown {
-  if (p.optional && isBlankFor(v, p)) {
-    if (p.default === undefined) return undefined;
-    return p.type === 'word' && p.read ? p.read(String(p.default)) : p.default;
-  }
-  if (p.type === 'number') {
+/** The value an omitted optional parameter gives the engine (its default, coerced once at definition). */
+export function defaultValue(p: AnyParam): unknown {
+  return p.kind === 'range' ? undefined : p.coercedDefault;
+}
+
+/** Coerces one cell for one scalar parameter (the default for a blank optional cell). */
+export function coerceCell(v: Scalar, p: AnyParam): unknown {
+  if (p.optional && isBlankFor(v, p)) return defaultValue(p);
+  if (p.kind === 'number') {
     const x = toNumber(v, p.name);
     return p.check ? p.check(x, p.name) : x;
   }
-  const w = toWord(v, p.name);
-  return p.read ? p.read(w) : w;
+  if (p.kind === 'word') return p.read(toWord(v, p.name));
+  throw valueError(`${p.name} is a range, not a single value`);
 }
 
 /** Turns a top-level argument (omitted, a scalar or a grid) into a grid; omitted gives undefined. */
@@ -67,7 +70,7 @@ export function asGrid(a: Scalar | Grid): Grid | undefined {
 }
 
 /** One value out of a range argument that must be a single cell. */
-export function singleCell(g: Grid | undefined, p: ParamDef, fn: string): Scalar {
+export function singleCell(g: Grid | undefined, p: AnyParam, fn: string): Scalar {
   if (g === undefined) return undefined;
   if (g.length !== 1 || g[0].length !== 1) {
     throw valueError(`${fn}: ${p.name} must be a single cell, not a ${g.length}×${g[0]?.length ?? 0} range`);
@@ -89,4 +92,11 @@ export function cellsOf(g: Grid | undefined): Scalar[] {
   if (!g) return out;
   for (const row of g) for (const v of row) out.push(v);
   return out;
+}
+
+/** The number of cells of a range (0 when omitted). */
+export function cellCount(g: Grid | undefined): number {
+  let n = 0;
+  if (g) for (const row of g) n += row.length;
+  return n;
 }

@@ -1,31 +1,16 @@
 /**
- * Parameter definitions shared across families, so each name, default and word table is set once.
+ * Parameters shared across families, so each name, default, word table and help text is set once.
  */
 import { readTier, DEFAULT_TIER } from '../engine/tiers';
 import { Z_TOTAL_ERROR, Z_TWO_SIDED_95 } from '../engine/coverage';
-import type { ParamDef } from './types';
+import { num, optNum, optWord } from './define';
 
-export const num = (name: string): ParamDef => ({ name, type: 'number' });
+export const TIER = optWord('tier', readTier, DEFAULT_TIER, '"optimum", "desirable" (default) or "minimum"; also "opt", "des", "min".');
+export const Z_TE = optNum('z', Z_TOTAL_ERROR, 'Coverage factor, default 1.65 (one-sided 95 %); ≥ 0.');
+export const Z_95 = optNum('z', Z_TWO_SIDED_95, 'Coverage factor, default 1.96 (two-sided 95 %).');
 
-export const optNum = (name: string, dflt: number | undefined): ParamDef => ({
-  name,
-  type: 'number',
-  optional: true,
-  default: dflt,
-  coercedDefault: dflt,
-});
-
-export const range = (name: string, optional = false): ParamDef => ({ name, type: 'range', optional });
-
-export const word = <W>(name: string, read: (t: string) => W, dflt?: string): ParamDef<W> => ({
-  name,
-  type: 'word',
-  read,
-  optional: dflt !== undefined,
-  default: dflt,
-  coercedDefault: dflt === undefined ? undefined : read(dflt),
-});
-
-export const TIER: ParamDef = word('tier', readTier, DEFAULT_TIER);
-export const Z_TE: ParamDef = optNum('z', Z_TOTAL_ERROR);
-export const Z_95: ParamDef = optNum('z', Z_TWO_SIDED_95);
+export const CVI = num('cvi', 'Within-subject biological variation CVI, %.');
+export const CVG = num('cvg', 'Between-subject biological variation CVG, %.');
+export const CV = num('cv', 'Observed analytical CV, %.');
+export const BIAS = num('bias', 'Observed bias, % (signed; its absolute value is used).');
+export const ALLOWABLE = num('allowable', 'Allowable total error, %; ≥ 0.');

@@ -1,53 +1,47 @@
 /**
- * The function metadata Excel reads (functions.json), generated from the wrappers' JSDoc by
- * custom-functions-metadata exactly as the webpack build does, checked against the registry.
+ * The function metadata Excel reads (functions.json), generated from the function catalogue, and
+ * the custom-functions entry that associates each id with its evaluator: both come from the same
+ * definitions, so they cannot disagree. The built file is the generated one.
  */
 import * as fs from 'fs';
 import * as path from 'path';
-import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import { FUNCTIONS, NAMESPACE } from '../../src/registry';
+import { functionsJson, helpPage, helpPath } from '../../src/registry/metadata';
 
-interface MetaParam {
-  name: string;
-  description?: string;
-  optional?: boolean;
-  dimensionality?: string;
-}
-interface MetaFunction {
-  id: string;
-  name: string;
-  description?: string;
-  parameters: MetaParam[];
-  result: { dimensionality?: string };
-}
+const root = path.join(__dirname, '..', '..');
+const origin = 'https://localhost:3000';
+const meta = functionsJson(origin).functions;
 
-const dir = path.join(__dirname, '..', '..', 'src', 'functions');
-const files = fs
-  .readdirSync(dir)
-  .filter((f) => f.endsWith('.ts') && f !== 'adapter.ts')
-  .map((f) => path.join(dir, f));
-
-let meta: MetaFunction[] = [];
-let errors: string[] = [];
-
-beforeAll(async () => {
-  const result = await generateCustomFunctionsMetadata(files, true);
-  errors = result.errors;
-  meta = result.metadataJson ? (JSON.parse(result.metadataJson).functions as MetaFunction[]) : [];
-});
+/**
+ * Ids Excel has seen: a saved workbook refers to a function by its id, so an id once published
+ * never changes. New functions add to this list; none is ever removed or renamed.
+ */
+const PUBLISHED_IDS = [
+  'SPEC.CV', 'SPEC.BIAS', 'SPEC.TOTAL', 'SPEC.MU', 'SPEC.FIXED', 'SPEC.TIERS', 'ZSCORE',
+  'PERF.TOTAL', 'PERF.SIGMA', 'PERF.SHARE', 'PERF.TIER', 'QC.SHIFT',
+  'BV.RCV', 'BV.RCVLOG', 'BV.INDIVIDUALITY', 'BV.SETPOINT',
+  'DATA.CV', 'DATA.BIAS', 'DATA.RMSBIAS', 'DATA.PRECISION', 'DATA.COMPARE', 'MU.BIAS', 'MU.COMBINE',
+  'QC.DETECT', 'QC.FALSEREJECT', 'QC.PLAN',
+];
 
 describe('generated functions.json', () => {
-  test('generates without errors', () => {
-    expect(errors).toEqual([]);
-  });
-
-  test('every registry function is present exactly once, and nothing else', () => {
+  test('every catalogue function is present exactly once, and nothing else', () => {
     const ids = meta.map((m) => m.id).sort();
     expect(ids).toEqual(FUNCTIONS.map((f) => f.name).sort());
+    expect(new Set(ids).size).toBe(ids.length);
     for (const m of meta) expect(m.name).toBe(m.id);
   });
 
-  test('parameters match the registry: names, order, optional flags; every one a matrix', () => {
+  test('no published id has gone or changed', () => {
+    const ids = new Set(meta.map((m) => m.id));
+    for (const id of PUBLISHED_IDS) expect([id, ids.has(id)]).toEqual([id, true]);
+  });
+
+  test('ids hold only letters, digits and periods (the Office metadata rule)', () => {
+    for (const m of meta) expect(m.id).toMatch(/^[A-Z0-9.]+$/);
+  });
+
+  test('parameters match the catalogue: names, order, optional flags; every one a matrix', () => {
     for (const f of FUNCTIONS) {
       const m = meta.find((x) => x.id === f.name);
       expect(m).toBeDefined();
@@ -80,15 +74,47 @@ describe('generated functions.json', () => {
     }
   });
 
+  test('each function links to its own help page on the add-in\'s origin', () => {
+    for (const f of FUNCTIONS) {
+      const m = meta.find((x) => x.id === f.name)!;
+      expect(m.helpUrl).toBe(`${origin}/${helpPath(f)}`);
+      const page = helpPage(f);
+      expect(page).toContain(`${NAMESPACE}.${f.name}`);
+      for (const p of f.params) expect(page).toContain(`<code>${p.name}</code>`);
+    }
+  });
+
   test('the manifest registers these functions under the LEEWAY namespace', () => {
-    const manifest = fs.readFileSync(path.join(__dirname, '..', '..', 'manifest.xml'), 'utf8');
+    const manifest = fs.readFileSync(path.join(root, 'manifest.xml'), 'utf8');
     expect(manifest).toMatch(new RegExp(`id="Functions.Namespace" DefaultValue="${NAMESPACE}"`));
   });
 
-  test('the built functions.json (when present) is the generated one', () => {
-    const built = path.join(__dirname, '..', '..', 'dist', 'addin', 'functions.json');
-    if (!fs.existsSync(built)) return;
-    const ids = (JSON.parse(fs.readFileSync(built, 'utf8')).functions as MetaFunction[]).map((m) => m.id).sort();
-    expect(ids).toEqual(meta.map((m) => m.id).sort());
+  test('the built add-in serves the generated functions.json and a help page per function (npm test builds first)', () => {
+    const dist = path.join(root, 'dist', 'addin');
+    expect([dist, fs.existsSync(path.join(dist, 'functions.json'))]).toEqual([dist, true]);
+    const built = JSON.parse(fs.readFileSync(path.join(dist, 'functions.json'), 'utf8'));
+    expect(built).toEqual(JSON.parse(JSON.stringify(functionsJson(origin))));
+    for (const f of FUNCTIONS) expect([f.name, fs.existsSync(path.join(dist, helpPath(f)))]).toEqual([f.name, true]);
+  });
+});
+
+describe('the custom-functions entry', () => {
+  test('associates every catalogue id with a function taking one argument per parameter', async () => {
+    const associated = new Map<string, (...a: unknown[]) => unknown>();
+    (globalThis as unknown as { CustomFunctions: unknown }).CustomFunctions = {
+      associate: (id: string, fn: (...a: unknown[]) => unknown) => associated.set(id, fn),
+      Error: class {
+        constructor(
+          public code: string,
+          public message?: string,
+        ) {}
+      },
+      ErrorCode: { invalidValue: '#VALUE!', notAvailable: '#N/A', divisionByZero: '#DIV/0!', invalidNumber: '#NUM!' },
+    };
+    await import('../../src/functions/index');
+    expect([...associated.keys()].sort()).toEqual(meta.map((m) => m.id).sort());
+    for (const f of FUNCTIONS) expect([f.name, associated.get(f.name)!.length]).toEqual([f.name, f.params.length]);
+    // An invocation object after the arguments (as the runtime may pass) is not read as an argument.
+    expect(associated.get('SPEC.CV')!([[5.7]], null, { address: 'A1' })).toEqual([[2.85]]);
   });
 });

@@ -21,9 +21,17 @@ class StubError {
   },
 };
 
-import { specCv, specTotal, specTiers, zScore } from '../../src/functions/spec';
-import { perfSigma, perfTier, qcShift } from '../../src/functions/perf';
-import { bvRcv, bvSetpoint } from '../../src/functions/bv';
+import { wrapperOf } from '../support/wrappers';
+
+const specCv = wrapperOf('SPEC.CV');
+const specTotal = wrapperOf('SPEC.TOTAL');
+const specTiers = wrapperOf('SPEC.TIERS');
+const zScore = wrapperOf('ZSCORE');
+const perfSigma = wrapperOf('PERF.SIGMA');
+const perfTier = wrapperOf('PERF.TIER');
+const qcShift = wrapperOf('QC.SHIFT');
+const bvRcv = wrapperOf('BV.RCV');
+const bvSetpoint = wrapperOf('BV.SETPOINT');
 
 describe('worksheet wrappers', () => {
   test('a single cell in, a single value out; omitted optionals (null) take defaults', () => {

@@ -284,7 +284,7 @@ describe('leeway call through the built command line', () => {
   });
 });
 
-describe('worksheet wrappers (src/functions/data.ts) with a stubbed CustomFunctions global', () => {
+describe('worksheet wrappers (the adapter of src/functions) with a stubbed CustomFunctions global', () => {
   class StubError {
     constructor(
       public code: string,
@@ -299,7 +299,16 @@ describe('worksheet wrappers (src/functions/data.ts) with a stubbed CustomFuncti
   });
 
   test('each wrapper calls its own function; omitted optionals arrive as null', async () => {
-    const w = await import('../../src/functions/data');
+    const { wrapperOf } = await import('../support/wrappers');
+    const w = {
+      dataCompare: wrapperOf('DATA.COMPARE'),
+      dataPrecision: wrapperOf('DATA.PRECISION'),
+      dataCv: wrapperOf('DATA.CV'),
+      dataBias: wrapperOf('DATA.BIAS'),
+      dataRmsBias: wrapperOf('DATA.RMSBIAS'),
+      muBias: wrapperOf('MU.BIAS'),
+      muCombine: wrapperOf('MU.COMBINE'),
+    };
     const x = [[1], [2], [3], [4], [10], [12], [18]];
     const y = [[9], [15], [19], [20], [45], [55], [78]];
     const cmp = w.dataCompare(x, y, null as never, null as never, null as never);

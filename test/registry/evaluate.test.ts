@@ -139,3 +139,38 @@ describe('blank word cells', () => {
     expect(evaluate('SPEC.CV', [10, [['  ']]])).toEqual([[5]]);
   });
 });
+
+describe('spilled calls give what a cell-by-cell call gives', () => {
+  // Property (seeded): the column and grid paths of every elementwise function agree with the
+  // single-cell path on each cell, whatever mixture of numbers, blanks, text and bad values.
+  const { mulberry32 } = require('../support/prng') as typeof import('../support/prng');
+  const rand = mulberry32(20261204);
+  const pool = [1, 2.5, 7, 30, 0, -1, null, '', 'text', true, 1e308, 'desirable', 'min', '1-3s', 0.5, 3];
+  const pick = () => pool[Math.floor(rand() * pool.length)];
+  const elementwise = FUNCTIONS.filter((f) => f.kind === 'elementwise');
+  test.each(elementwise.map((f) => [f.name]))('%s', (name) => {
+    const def = findFunction(name)!;
+    for (let trial = 0; trial < 60; trial++) {
+      const rows = 1 + Math.floor(rand() * 6);
+      const cols = trial % 3 === 0 ? 2 : 1;
+      // Each argument: a range, a single cell or omitted (optional ones); plain numbers most of the time.
+      const args = def.params.map((p, i) => {
+        const r = rand();
+        if (p.optional && r < 0.15) return null;
+        const cell = () => (rand() < 0.7 && p.kind === 'number' ? Math.round(1 + 30 * rand()) / 2 : pick());
+        if (r < 0.55 || i === 0) return Array.from({ length: rows }, () => Array.from({ length: cols }, cell));
+        return [[cell()]];
+      });
+      const out = evaluate(name, args as never);
+      const isRange = (a: unknown): boolean => Array.isArray(a) && !(a.length === 1 && (a[0] as unknown[]).length === 1);
+      if (!args.some(isRange)) continue;
+      expect([JSON.stringify(args), out.length === rows ? rows : JSON.stringify(out)]).toEqual([JSON.stringify(args), rows]);
+      for (let r = 0; r < rows; r++) {
+        for (let c = 0; c < cols; c++) {
+          const one = args.map((a) => (isRange(a) ? [[(a as unknown[][])[r][c]]] : a));
+          expect([name, r, c, out[r][c]]).toEqual([name, r, c, evaluate(name, one as never)[0][0]]);
+        }
+      }
+    }
+  });
+});

@@ -39,10 +39,10 @@ const SHAPES: Array<[number, number]> = [[1, 1], [1, 1], [1, 1], [3, 1], [1, 3],
 
 /** The words of WORDS a word parameter accepts (found by asking its reader). */
 function acceptedWords(p: FunctionDef['params'][number]): string[] {
-  if (!p.read) return WORDS;
+  if (p.kind !== 'word') return WORDS;
   const ok = WORDS.filter((w) => {
     try {
-      p.read!(w);
+      p.read(w);
       return true;
     } catch {
       return false;
@@ -53,12 +53,12 @@ function acceptedWords(p: FunctionDef['params'][number]): string[] {
 
 /** Half the cases are plausible (moderate positive numbers, accepted words, ranges that pair), so the valid paths are exercised too. */
 function plausibleArg(rand: () => number, p: FunctionDef['params'][number], length: number): Arg {
-  if (p.type === 'word') {
+  if (p.kind === 'word') {
     const ok = acceptedWords(p);
     return ok[Math.floor(rand() * ok.length)];
   }
   const value = () => (rand() < 0.05 ? null : Number((0.01 + 30 * rand()).toPrecision(6)));
-  if (p.type === 'range') return Array.from({ length }, (_v, k) => [p.name === 'groups' ? `run ${k % 4}` : value()]);
+  if (p.kind === 'range') return Array.from({ length }, (_v, k) => [p.name === 'groups' ? `run ${k % 4}` : value()]);
   return p.name === 'n' || p.name === 'runs' || p.name === 'sides' ? 1 + Math.floor(rand() * 3) : p.name === 'probability' || p.name === 'target' || p.name === 'limit' ? rand() : value();
 }
 
@@ -67,9 +67,9 @@ function argFor(rand: () => number, def: FunctionDef, i: number, plausible: bool
   if (plausible) return plausibleArg(rand, p, length);
   const r = rand();
   if (p.optional && r < 0.15) return null; // omitted optional
-  const wantNumber = p.type !== 'word';
-  if (p.type === 'range' || r < 0.25) {
-    const [rows, cols] = p.type === 'range' ? [1 + Math.floor(rand() * 12), rand() < 0.8 ? 1 : 2] : SHAPES[Math.floor(rand() * SHAPES.length)];
+  const wantNumber = p.kind !== 'word';
+  if (p.kind === 'range' || r < 0.25) {
+    const [rows, cols] = p.kind === 'range' ? [1 + Math.floor(rand() * 12), rand() < 0.8 ? 1 : 2] : SHAPES[Math.floor(rand() * SHAPES.length)];
     return Array.from({ length: rows }, () => Array.from({ length: cols }, () => scalarFor(rand, wantNumber)));
   }
   return r < 0.6 ? scalarFor(rand, wantNumber) : [[scalarFor(rand, wantNumber)]];
