@@ -1,12 +1,10 @@
 /**
- * `leeway demo [--out FILE] [--force] [--live]`: the demo workbook of SPEC.md section 8. The
+ * `leeway demo [--out FILE] [--force] [--live]`: the demo workbook (invented data). The
  * invented table's specifications at the desirable tier (the fill planner, as `leeway fill`
  * writes them), the invented raw replication, EQA and method-comparison data, observed
- * performance computed from them with the DATA functions, sigma and the QC plan, measurement
- * uncertainty, and a summary. Every figure is computed through the registry's evaluate() by
- * function name, so a family that is not in this build leaves its columns empty with a note
- * saying so, and fills them once it is. Every sheet says "DEMO — invented data, not for
- * clinical use" and carries the caution of SPEC.md section 9.
+ * performance computed from them with the DATA functions, sigma and the QC plan (the engine's
+ * assessment chain), measurement uncertainty, and a summary. Every sheet says "DEMO — invented
+ * data, not for clinical use" and carries the caution.
  */
 import type ExcelJS from 'exceljs';
 import { UsageError } from './call';
@@ -14,7 +12,7 @@ import type { Io } from './main';
 import { one, readOptions } from './options';
 import { writeWorkbookAtomically, today, newWorkbook } from './files';
 import { headerHeight, printSetup, writePlan } from './xlsx';
-import { evaluate, findFunction } from '../registry';
+import { evaluate } from '../registry';
 import type { Arg } from '../registry';
 import type { OutCell } from '../registry/types';
 import { demoData, demoTable, DEMO_ANALYSERS, DEMO_LAB, DEMO_MARKER, reportedDecimals } from '../engine/demo';
@@ -22,6 +20,10 @@ import type { DemoAnalyteData } from '../engine/demo';
 import { planFill, CAUTION, wrapText } from '../engine/fill';
 import type { FillMode } from '../engine/fill';
 import { VERSION } from '../engine/version';
+import { assess } from '../engine/assess';
+import type { Fig } from '../engine/assess';
+import type { QcPlan } from '../engine/qc/plan';
+import { QC_PLAN } from '../registry/catalogue/qc';
 
 export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live]
                                    build the demo workbook (invented data) in FILE (default leeway-demo.xlsx)`;
@@ -41,17 +43,13 @@ function show(v: OutCell | undefined): Value {
   return v;
 }
 
-const has = (name: string): boolean => findFunction(name) !== undefined;
-
-/** One value of a function, or undefined when the function is not in this build. */
-function scalar(name: string, args: readonly Arg[]): OutCell | undefined {
-  if (!has(name)) return undefined;
+/** One value of a function. */
+function scalar(name: string, args: readonly Arg[]): OutCell {
   return evaluate(name, args)[0][0];
 }
 
 /** A labelled spill as label → value (an error fills every label). */
-function labelled(name: string, args: readonly Arg[]): Map<string, OutCell> | undefined {
-  if (!has(name)) return undefined;
+function labelled(name: string, args: readonly Arg[]): Map<string, OutCell> {
   const out = evaluate(name, args);
   const m = new Map<string, OutCell>();
   if (out.length === 1) {
@@ -126,15 +124,6 @@ class SheetBuilder {
   }
 }
 
-function missing(names: readonly string[]): string[] {
-  return names.filter((n) => !has(n));
-}
-
-function missingNote(b: SheetBuilder, names: readonly string[]): void {
-  const gone = missing(names);
-  if (gone.length) b.note(`Not in this build: ${gone.map((n) => `LEEWAY.${n}`).join(', ')}; the columns that need ${gone.length === 1 ? 'it' : 'them'} are left empty.`);
-}
-
 interface Observed {
   readonly data: DemoAnalyteData;
   readonly cvi: number;
@@ -156,12 +145,38 @@ interface Observed {
   readonly muLimit: OutCell | undefined;
 }
 
-/** Every figure of the demo, computed through the registry by name. */
+/** A figure of the assessment chain as a cell: its value, or its error (an absence is no cell). */
+function cellOf<T extends number | string | boolean>(f: Fig<T>): OutCell | undefined {
+  if (f.ok) return f.value;
+  return f.absent ? undefined : { error: f.code, message: f.message };
+}
+
+/** QC.PLAN's spill as label → value, from the chain's plan. */
+function planCells(f: Fig<QcPlan>): Map<string, OutCell> | undefined {
+  if (!f.ok) {
+    const c = cellOf(f as Fig<number>);
+    return c === undefined ? undefined : new Map([['*', c]]);
+  }
+  const p = f.value;
+  const values: Record<(typeof QC_PLAN.labels)[number], OutCell> = {
+    Rule: p.rule,
+    'Controls per run': p.n,
+    Runs: p.runs,
+    Detection: p.detection,
+    'False rejection per run': p.falseRejectionPerRun,
+    'Target met': p.targetMet,
+  };
+  return new Map(QC_PLAN.labels.map((l) => [l, values[l]]));
+}
+
+/**
+ * Every figure of the demo: the statistics from the invented raw data through the registry
+ * (as the sheets' formulas compute them), then the assessment chain at the desirable tier.
+ */
 export function demoFigures(): Observed[] {
   const table = demoTable();
   return demoData().map((data, i) => {
     const r = table.rows[i];
-    const allowable = scalar('SPEC.TOTAL', [r.cvi, r.cvg, 'desirable', 1.65]);
     const precision = labelled('DATA.PRECISION', [col(data.replication.map((x) => x.result)), colText(data.replication.map((x) => x.day))]);
     const cv = pick(precision, 'Within-lab CV %');
     const results = col(data.eqa.map((x) => x.result));
@@ -169,18 +184,32 @@ export function demoFigures(): Observed[] {
     const bias = scalar('DATA.BIAS', [results, targets]);
     const rmsBias = scalar('DATA.RMSBIAS', [results, targets]);
     const compare = labelled('DATA.COMPARE', [col(data.comparison.map((x) => x.x)), col(data.comparison.map((x) => x.y)), 'passing-bablok', data.level]);
-    const ok = num(cv) !== undefined && num(bias) !== undefined;
-    const observedTotal = ok ? scalar('PERF.TOTAL', [num(bias)!, num(cv)!, 1.65]) : undefined;
-    const sigma = ok && num(allowable) !== undefined ? scalar('PERF.SIGMA', [num(allowable)!, num(bias)!, num(cv)!]) : undefined;
-    const share = num(observedTotal) !== undefined && num(allowable) !== undefined ? scalar('PERF.SHARE', [num(observedTotal)!, num(allowable)!]) : undefined;
-    const tierMet = ok ? scalar('PERF.TIER', [r.cvi, r.cvg, num(bias)!, num(cv)!]) : undefined;
-    const shift = ok && num(allowable) !== undefined ? scalar('QC.SHIFT', [num(allowable)!, num(bias)!, num(cv)!]) : undefined;
-    const qc = ok && num(allowable) !== undefined ? labelled('QC.PLAN', [num(allowable)!, num(bias)!, num(cv)!]) : undefined;
+    const observed = num(cv) !== undefined && num(bias) !== undefined ? { bias: num(bias)!, cv: num(cv)! } : null;
+    const chain = assess({ spec: r, tier: 'desirable', z: 1.65, observed, plan: true });
     const biasValues = col(data.eqa.map((x) => (100 * (x.result - x.target)) / x.target));
     const uBias = scalar('MU.BIAS', [biasValues, DEMO_U_REF]);
     const expanded = num(cv) !== undefined && num(uBias) !== undefined ? scalar('MU.COMBINE', [num(cv)!, num(uBias)!, 2]) : undefined;
     const muLimit = scalar('SPEC.MU', [r.cvi, 'desirable', 2]);
-    return { data, cvi: r.cvi, cvg: r.cvg as number, allowable, precision, cv, bias, rmsBias, compare, observedTotal, sigma, share, tierMet, shift, qc, uBias, expanded, muLimit };
+    return {
+      data,
+      cvi: r.cvi,
+      cvg: r.cvg as number,
+      allowable: cellOf(chain.inUse.total),
+      precision,
+      cv,
+      bias,
+      rmsBias,
+      compare,
+      observedTotal: cellOf(chain.observedTotal),
+      sigma: cellOf(chain.inUse.sigma),
+      share: cellOf(chain.inUse.share),
+      tierMet: cellOf(chain.tierMet),
+      shift: chain.plan.ok ? chain.plan.value.criticalShift : undefined,
+      qc: planCells(chain.plan),
+      uBias,
+      expanded,
+      muLimit,
+    };
   });
 }
 
@@ -208,7 +237,6 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
   sum.row++;
   sum.note('Observed total error = |bias| + 1.65·CV (LEEWAY.PERF.TOTAL); sigma = (allowable − |bias|)/CV (LEEWAY.PERF.SIGMA); tier met by total error (LEEWAY.PERF.TIER);');
   sum.note('QC rule: the simplest candidate reaching 90 % detection of the critical shift with ≤ 5 % false rejection (LEEWAY.QC.PLAN). Details on the other sheets.');
-  missingNote(sum, ['DATA.PRECISION', 'DATA.BIAS', 'QC.PLAN', 'MU.BIAS', 'MU.COMBINE']);
   sum.widths([14, 10, 14, 10, 10, 12, 11, 8, 11, 24, 9, 6, 10, 8, 13]);
 
   // Specifications: the fill planner, exactly as leeway fill writes a new sheet.
@@ -247,7 +275,6 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
       if (typeof v === 'string' && v.startsWith('=')) c.alignment = { horizontal: 'left', indent: 1 };
     });
   });
-  rep.ws.getCell(resultsHeaderRow + resultRows + 1, 1).value = missing(['DATA.PRECISION']).length ? 'LEEWAY.DATA.PRECISION is not in this build; the results are left empty.' : null;
   rep.widths([14, 9, 10, 12, 12, 11, 12, 10, 8, 8, 44]);
 
   // EQA: raw data, mean and RMS bias, and the bias uncertainty.
@@ -316,7 +343,6 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
   for (const f of figures) perf.line([f.data.analyte, f.cvi, f.cvg, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet)], { formats: [undefined, undefined, undefined, P2, P2, P2, P2, P2, '0.0'] });
   perf.row++;
   perf.note('=LEEWAY.SPEC.TOTAL(cvi, cvg, "desirable", 1.65); =LEEWAY.PERF.TOTAL(bias, cv); =LEEWAY.PERF.SHARE(observed, allowable); =LEEWAY.PERF.SIGMA(allowable, bias, cv); =LEEWAY.PERF.TIER(cvi, cvg, bias, cv)');
-  missingNote(perf, ['DATA.PRECISION', 'DATA.BIAS']);
   perf.widths([14, 8, 8, 14, 11, 11, 13, 11, 8, 11]);
 
   // QC plan.
@@ -327,7 +353,6 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
   for (const f of figures) qc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...qcLabels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3] });
   qc.row++;
   qc.note('=LEEWAY.QC.SHIFT(allowable, bias, cv); =LEEWAY.QC.PLAN(allowable, bias, cv): target detection 0.90 at the critical shift, false rejection per run ≤ 0.05.');
-  missingNote(qc, ['QC.PLAN']);
   qc.widths([14, 13, 9, 9, 8, 11, 24, 10, 7, 10, 12, 9]);
 
   // Measurement uncertainty.
@@ -340,7 +365,6 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = 
   }
   mu.row++;
   mu.note(`=LEEWAY.MU.BIAS(bias_values, ${DEMO_U_REF}); =LEEWAY.MU.COMBINE(u_rw, u_bias, 2); =LEEWAY.SPEC.MU(cvi, "desirable", 2)`);
-  missingNote(mu, ['MU.BIAS', 'MU.COMBINE']);
   mu.widths([14, 14, 11, 13, 18, 12]);
 
   for (const ws of wb.worksheets) {

@@ -193,6 +193,9 @@ export function aggregate<const P extends readonly AnyParam[], F extends (...arg
   return { kind: 'aggregate', name: def.name, doc: def.doc, params: def.params, fn: def.fn };
 }
 
+/** A labelled function's definition, its labels typed as the very tuple given (views index by them). */
+export type LabelledDef<L extends readonly string[]> = Omit<AggregateDef, 'labels'> & { readonly labels: L };
+
 /** The figures of a labelled spill, one per label (the compiler checks every label has one). */
 export type Figures<L extends readonly string[]> = { readonly [K in L[number]]: Figure };
 
@@ -206,7 +209,7 @@ export function labelled<
   F extends (...args: ValuesOf<P>) => Figures<L>,
 >(
   def: { readonly name: string; readonly doc: Doc; readonly params: P; readonly labels: L; readonly fn: F } & ArityOk<P, F>,
-): AggregateDef & { readonly labels: L } {
+): LabelledDef<L> {
   const labels = def.labels;
   const compute = def.fn;
   const fn = (...args: unknown[]): Output => {

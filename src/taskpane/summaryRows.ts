@@ -6,10 +6,8 @@
  */
 import type { VariationRow, VariationTable } from '../engine/table';
 import type { Tier } from '../engine/tiers';
-import { allowableTotalError } from '../engine/spec';
-import { observedTotalError, sigmaMetric, tierMet } from '../engine/perf';
-import { planQc } from '../engine/qc/plan';
-import { isLeewayError } from '../engine/errors';
+import { assess, explain } from '../engine/assess';
+import type { Fig } from '../engine/assess';
 import { CAUTION, DEMO_MARKER } from '../engine/caution';
 import { VERSION } from '../engine/version';
 import type { SummaryRow } from './host';
@@ -34,62 +32,33 @@ export const SUMMARY_HEADERS = [
   'Note',
 ] as const;
 
-function why(e: unknown): string {
-  return isLeewayError(e) ? `${e.code} ${e.message}` : String(e);
+/** A figure as the summary shows it: the number, or the reason there is none. */
+function shown(f: Fig<number>): number | string {
+  return f.ok ? f.value : explain(f);
 }
 
+/** One analyte's row: the engine's assessment chain at the analyte's tier, with its QC plan. */
 export function summaryRow(r: VariationRow, tier: Tier, z: number, obs: Observed | undefined): SummaryRow {
-  const name = displayName(r);
-  const base = { analyte: name, specimen: r.specimen, tier };
-  let allowable: number | string;
-  try {
-    if (r.cvg === null) throw new Error('no CVG in the table');
-    allowable = allowableTotalError(r.cvi, r.cvg, tier, z);
-  } catch (e) {
-    allowable = e instanceof Error && !isLeewayError(e) ? e.message : why(e);
+  const a = assess({ spec: r, tier, z, observed: obs, plan: true });
+  const base = { analyte: displayName(r), specimen: r.specimen, tier, allowable: shown(a.inUse.total) };
+  if (!obs) {
+    return { ...base, bias: '', cv: '', observedTotal: '', sigma: '', tierMet: 'no observed data', rule: '', controls: '', runs: '', detection: '', falseRejection: '' };
   }
-  const none = { bias: '', cv: '', observedTotal: '', sigma: '', tierMet: 'no observed data', rule: '', controls: '', runs: '', detection: '', falseRejection: '' };
-  if (!obs) return { ...base, allowable, ...none };
-  let observedTotal: number | string;
-  try {
-    observedTotal = observedTotalError(obs.bias, obs.cv, z);
-  } catch (e) {
-    observedTotal = why(e);
-  }
-  let met: string;
-  try {
-    met = r.cvg === null ? 'no CVG in the table' : tierMet(r.cvi, r.cvg, obs.bias, obs.cv, z, 'total');
-  } catch (e) {
-    met = why(e);
-  }
-  if (typeof allowable !== 'number') {
-    return { ...base, allowable, ...none, bias: obs.bias, cv: obs.cv, observedTotal, tierMet: met };
-  }
-  let sigma: number | string;
-  try {
-    sigma = sigmaMetric(allowable, obs.bias, obs.cv);
-  } catch (e) {
-    sigma = why(e);
-  }
-  try {
-    const p = planQc(allowable, obs.bias, obs.cv);
-    return {
-      ...base,
-      allowable,
-      bias: obs.bias,
-      cv: obs.cv,
-      observedTotal,
-      sigma,
-      tierMet: met,
-      rule: p.targetMet ? p.rule : `${p.rule} (target not met)`,
-      controls: p.n,
-      runs: p.runs,
-      detection: p.detection,
-      falseRejection: p.falseRejectionPerRun,
-    };
-  } catch (e) {
-    return { ...base, allowable, bias: obs.bias, cv: obs.cv, observedTotal, sigma, tierMet: met, rule: why(e), controls: '', runs: '', detection: '', falseRejection: '' };
-  }
+  const tierMet = a.tierMet.ok ? a.tierMet.value : explain(a.tierMet);
+  const common = { ...base, bias: obs.bias, cv: obs.cv, observedTotal: shown(a.observedTotal), tierMet };
+  if (!a.inUse.total.ok) return { ...common, sigma: '', rule: '', controls: '', runs: '', detection: '', falseRejection: '' };
+  const sigma = shown(a.inUse.sigma);
+  if (!a.plan.ok) return { ...common, sigma, rule: explain(a.plan), controls: '', runs: '', detection: '', falseRejection: '' };
+  const p = a.plan.value;
+  return {
+    ...common,
+    sigma,
+    rule: p.targetMet ? p.rule : `${p.rule} (target not met)`,
+    controls: p.n,
+    runs: p.runs,
+    detection: p.detection,
+    falseRejection: p.falseRejectionPerRun,
+  };
 }
 
 export function summaryHeader(table: VariationTable, sheetTier: Tier, z: number, date: string): string[] {

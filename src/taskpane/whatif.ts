@@ -1,26 +1,19 @@
 /**
- * What-if across tiers: for one analyte, the three tiers side by side from the engine
- * (SPEC.TIERS), and with observed bias and CV the observed total error (PERF.TOTAL), the sigma
- * metric and share of the allowance against each tier (PERF.SIGMA, PERF.SHARE) and the most
- * stringent tier met (PERF.TIER, mode "total"). Every number comes from src/engine; this file
- * only arranges them. A fixed (regulatory/EQA) limit, when the table gives one, is a fourth row
- * (SPEC.FIXED at the table's level).
+ * What-if across tiers for one analyte: the engine's assessment chain (src/engine/assess.ts),
+ * arranged for the What-if view — the three tiers side by side and the fixed limit when the table
+ * gives one; with observed bias and CV, the observed total error, sigma and share of each
+ * allowance and the most stringent tier met. Nothing is computed here.
  */
-import { tierTable, fixedLimitPercent, allowableImprecision } from '../engine/spec';
-import { observedTotalError, sigmaMetric, allowanceShare, tierMet } from '../engine/perf';
-import { TIERS } from '../engine/tiers';
+import { assess, explain } from '../engine/assess';
+import type { AnalyteSpec, Basis, Fig } from '../engine/assess';
 import type { Tier } from '../engine/tiers';
-import { isLeewayError } from '../engine/errors';
+import { DEFAULT_TIER } from '../engine/tiers';
 
-/** A number, or why there is none (the engine's message). */
+/** A number, or why there is none (the engine's message, or what the table lacks). */
 export type Figure = { ok: true; value: number } | { ok: false; why: string };
 
-function figure(f: () => number): Figure {
-  try {
-    return { ok: true, value: f() };
-  } catch (e) {
-    return { ok: false, why: isLeewayError(e) ? `${e.code} ${e.message}` : String(e) };
-  }
+function figure(f: Fig<number>): Figure {
+  return f.ok ? { ok: true, value: f.value } : { ok: false, why: explain(f) };
 }
 
 export interface WhatIfInput {
@@ -29,11 +22,12 @@ export interface WhatIfInput {
   readonly cvg?: number | null;
   readonly z: number;
   readonly observed?: { readonly bias: number; readonly cv: number } | null;
-  readonly fixed?: { readonly level: number; readonly absolute: number; readonly percent: number } | null;
+  /** The fixed-limit columns of the table row (the engine's one rule reads them). */
+  readonly limits?: { readonly limitAbs: number | null; readonly limitPct: number | null; readonly level: number | null } | null;
 }
 
 export interface WhatIfRow {
-  readonly tier: Tier | 'fixed';
+  readonly tier: Basis;
   readonly cv: Figure;
   readonly bias: Figure;
   readonly total: Figure;
@@ -50,70 +44,21 @@ export interface WhatIfResult {
   readonly tierMet?: Tier | 'none' | { why: string };
 }
 
-const missing = (what: string): Figure => ({ ok: false, why: `no ${what} in the table` });
-
 export function whatIf(input: WhatIfInput): WhatIfResult {
-  const { cvi, z } = input;
-  const cvg = input.cvg ?? null;
+  const spec: AnalyteSpec = {
+    cvi: input.cvi,
+    cvg: input.cvg ?? null,
+    limitAbs: input.limits?.limitAbs ?? null,
+    limitPct: input.limits?.limitPct ?? null,
+    level: input.limits?.level ?? null,
+  };
   const obs = input.observed ?? null;
-  let base: WhatIfRow[];
-  if (cvg === null) {
-    base = TIERS.map((tier) => ({
-      tier,
-      cv: figure(() => allowableImprecision(cvi, tier)),
-      bias: missing('CVG'),
-      total: missing('CVG'),
-    }));
-  } else {
-    let table: ReturnType<typeof tierTable> | null = null;
-    let why = '';
-    try {
-      table = tierTable(cvi, cvg, z);
-    } catch (e) {
-      why = isLeewayError(e) ? `${e.code} ${e.message}` : String(e);
-    }
-    base = TIERS.map((tier, i) =>
-      table
-        ? {
-            tier,
-            cv: { ok: true, value: table[i].cv },
-            bias: { ok: true, value: table[i].bias },
-            total: { ok: true, value: table[i].total },
-          }
-        : { tier, cv: { ok: false, why }, bias: { ok: false, why }, total: { ok: false, why } },
-    );
-  }
-  if (input.fixed) {
-    const f = input.fixed;
-    base.push({
-      tier: 'fixed',
-      cv: { ok: false, why: 'a fixed limit sets only the total' },
-      bias: { ok: false, why: 'a fixed limit sets only the total' },
-      total: figure(() => fixedLimitPercent(f.level, f.absolute, f.percent)),
-    });
-  }
-  if (!obs) return { rows: base };
-
-  const observedTotal = figure(() => observedTotalError(obs.bias, obs.cv, z));
-  const rows = base.map((r): WhatIfRow => {
-    if (!r.total.ok) return { ...r, sigma: r.total, share: r.total };
-    const allowable = r.total.value;
-    const share = observedTotal.ok ? figure(() => allowanceShare(observedTotal.value, allowable)) : observedTotal;
-    return {
-      ...r,
-      sigma: figure(() => sigmaMetric(allowable, obs.bias, obs.cv)),
-      share,
-      met: observedTotal.ok ? observedTotal.value <= allowable : undefined,
-    };
+  const a = assess({ spec, tier: DEFAULT_TIER, z: input.z, observed: obs });
+  const rows = a.rows.map((r): WhatIfRow => {
+    const base = { tier: r.basis, cv: figure(r.cv), bias: figure(r.bias), total: figure(r.total) };
+    return obs ? { ...base, sigma: figure(r.sigma), share: figure(r.share), met: r.met } : base;
   });
-  let met: WhatIfResult['tierMet'];
-  if (cvg === null) met = { why: 'no CVG in the table' };
-  else {
-    try {
-      met = tierMet(cvi, cvg, obs.bias, obs.cv, z, 'total');
-    } catch (e) {
-      met = { why: isLeewayError(e) ? `${e.code} ${e.message}` : String(e) };
-    }
-  }
-  return { rows, observedTotal, tierMet: met };
+  if (!obs) return { rows };
+  const tierMet = a.tierMet.ok ? a.tierMet.value : { why: explain(a.tierMet) };
+  return { rows, observedTotal: figure(a.observedTotal), tierMet };
 }

@@ -98,7 +98,7 @@ describe('what-if: the three tiers side by side', () => {
 
   test('a fixed limit adds a row with SPEC.FIXED at the level (± 5 units or ± 10 %, whichever is greater)', () => {
     // At level 40: 100·5/40 = 12.5 % > 10 %; common practice, no source.
-    const r = whatIf({ cvi: 12.4, cvg: 18.1, z: 1.65, fixed: { level: 40, absolute: 5, percent: 10 }, observed: { bias: 2, cv: 3 } });
+    const r = whatIf({ cvi: 12.4, cvg: 18.1, z: 1.65, limits: { level: 40, limitAbs: 5, limitPct: 10 }, observed: { bias: 2, cv: 3 } });
     const fixed = r.rows[3];
     expect(fixed.tier).toBe('fixed');
     expect(fixed.total).toEqual({ ok: true, value: 12.5 });

@@ -14,7 +14,8 @@
  *   Fixed limit %               =LEEWAY.SPEC.FIXED(level, abs, pct)   max(100·abs/level, pct); the percent limit alone when there is no absolute part
  * where tier is the row's own tier cell when it is not blank, else the sheet's tier cell.
  */
-import { allowableBias, allowableImprecision, allowableTotalError, allowableUncertainty, fixedLimitPercent } from '../spec';
+import { allowableBias, allowableImprecision, allowableTotalError, allowableUncertainty } from '../spec';
+import { fixedLimit } from '../assess';
 import { LeewayError, naError } from '../errors';
 import { TIERS } from '../tiers';
 import type { Tier } from '../tiers';
@@ -121,10 +122,12 @@ export function derivedValue(field: DerivedField, row: VariationRow, tier: Tier,
       return compute(() => allowableTotalError(row.cvi, cvg(), tier, z));
     case 'spec_mu':
       return compute(() => allowableUncertainty(row.cvi, tier, 1));
-    case 'fixed_pct':
-      if (row.limitAbs !== null) return compute(() => fixedLimitPercent(row.level ?? NaN, row.limitAbs as number, row.limitPct ?? 0));
-      if (row.limitPct !== null) return row.limitPct;
+    case 'fixed_pct': {
+      const fixed = fixedLimit(row);
+      if (fixed.ok) return fixed.value;
+      if (!fixed.absent) return { error: fixed.code, message: fixed.message };
       return row.level === null ? undefined : '';
+    }
   }
 }
 

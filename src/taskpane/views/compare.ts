@@ -26,11 +26,7 @@ import type { Grid } from '../../registry/types';
 import { demoObserved } from '../demo';
 
 function inputOf(r: VariationRow, z: number, obs: { bias: number; cv: number } | null) {
-  const fixed =
-    r.level !== null && (r.limitAbs !== null || r.limitPct !== null)
-      ? { level: r.level, absolute: r.limitAbs ?? 0, percent: r.limitPct ?? 0 }
-      : null;
-  return { cvi: r.cvi, cvg: r.cvg, z, observed: obs, fixed };
+  return { cvi: r.cvi, cvg: r.cvg, z, observed: obs, limits: r };
 }
 
 export function compareView(ctx: PaneContext): View {
