@@ -39,6 +39,14 @@ function scaledScore(result: number, assigned: number, a: number, b: number, too
   return score === 0 ? 0 : score;
 }
 
+/** The message for a score beyond the largest double, naming the inputs as given. */
+function tooLargeScore(result: number, assigned: number, spread: string): string {
+  return (
+    'the score is beyond the largest number a cell holds: ' +
+    `result ${show(result)} and assigned ${show(assigned)} differ by more than 1.8e308 times ${spread}`
+  );
+}
+
 /**
  * EQA.ZSCORE: z = (x − x_pt)/σ_pt, the laboratory's result x against the assigned value x_pt in
  * units of the standard deviation for proficiency assessment σ_pt set by the scheme
@@ -52,10 +60,15 @@ export function eqaZScore(result: number, assigned: number, sdPt: number, uAssig
   finite(assigned, 'assigned');
   divisor(sdPt, 'sd_pt');
   nonNegative(uAssigned, 'u_assigned');
-  return scaledScore(result, assigned, sdPt, uAssigned, () => {
-    const spread = uAssigned > 0 ? `√(sd_pt² + u_assigned²) (sd_pt ${show(sdPt)}, u_assigned ${show(uAssigned)})` : `sd_pt ${show(sdPt)}`;
-    return `the score is beyond the largest number a cell holds (about 1.8e308): result ${show(result)} and assigned ${show(assigned)} differ by more than that many times ${spread}`;
-  });
+  return scaledScore(result, assigned, sdPt, uAssigned, () =>
+    tooLargeScore(
+      result,
+      assigned,
+      uAssigned > 0
+        ? `√(sd_pt² + u_assigned²) (sd_pt ${show(sdPt)}, u_assigned ${show(uAssigned)})`
+        : `sd_pt ${show(sdPt)}`,
+    ),
+  );
 }
 
 /**
@@ -74,7 +87,11 @@ export function eqaZeta(result: number, assigned: number, uResult: number, uAssi
     throw divError('u_result and u_assigned are both zero: ζ divides by √(u_result² + u_assigned²)');
   }
   return scaledScore(result, assigned, uResult, uAssigned, () =>
-    `the score is beyond the largest number a cell holds (about 1.8e308): result ${show(result)} and assigned ${show(assigned)} differ by more than that many times √(u_result² + u_assigned²) (u_result ${show(uResult)}, u_assigned ${show(uAssigned)})`,
+    tooLargeScore(
+      result,
+      assigned,
+      `√(u_result² + u_assigned²) (u_result ${show(uResult)}, u_assigned ${show(uAssigned)})`,
+    ),
   );
 }
 
@@ -101,7 +118,9 @@ export function scoreBand(score: number, decimals?: number): ScoreBand {
   let s = score;
   if (decimals !== undefined) {
     wholeNumber(decimals, 'decimals', 0);
-    if (decimals > BAND_MAX_DECIMALS) throw numError(`decimals must be at most ${BAND_MAX_DECIMALS} (got ${show(decimals)})`);
+    if (decimals > BAND_MAX_DECIMALS) {
+      throw numError(`decimals must be at most ${BAND_MAX_DECIMALS} (got ${show(decimals)})`);
+    }
     s = roundHalfUp(score, decimals);
   }
   const a = Math.abs(s);
@@ -110,7 +129,10 @@ export function scoreBand(score: number, decimals?: number): ScoreBand {
   return 'unsatisfactory';
 }
 
-/** What EQA.CONSENSUS returns (labels `Robust mean`, `Robust SD`, `Participants`, `Uncertainty of the assigned value`). */
+/**
+ * What EQA.CONSENSUS returns; its labels are `Robust mean`, `Robust SD`, `Participants`,
+ * `Uncertainty of the assigned value`.
+ */
 export interface Consensus {
   /** x*, Algorithm A's robust mean. */
   readonly robustMean: number;
@@ -188,7 +210,9 @@ export function consensus(values: ArrayLike<number>, maxRounds = CONSENSUS_MAX_R
   for (let i = 0; i < p; i++) dev[i] = Math.abs(x[i] - median);
   dev.sort();
   const mad = medianOfSorted(dev);
-  if (mad === 0) return { robustMean: median * unscale, robustSd: 0, participants: p, uncertainty: 0, rounds: 0 };
+  if (mad === 0) {
+    return { robustMean: median * unscale, robustSd: 0, participants: p, uncertainty: 0, rounds: 0 };
+  }
 
   // Work in w = (x − median)/c, c a power of two near the MAD: exact scaling, s* of order 1.
   const c = 2 ** Math.max(-1074, Math.min(1023, Math.floor(Math.log2(mad))));
@@ -200,7 +224,10 @@ export function consensus(values: ArrayLike<number>, maxRounds = CONSENSUS_MAX_R
   let rounds = 0;
   for (;;) {
     if (rounds === maxRounds) {
-      throw numError(`Algorithm A did not settle within ${maxRounds} rounds (${p} results): the results hold too many far outliers for a robust mean`);
+      throw numError(
+        `Algorithm A did not settle within ${maxRounds} rounds (${p} results): ` +
+          'the results hold too many far outliers for a robust mean',
+      );
     }
     const delta = 1.5 * ss;
     const lo = xs - delta;
@@ -225,7 +252,9 @@ export function consensus(values: ArrayLike<number>, maxRounds = CONSENSUS_MAX_R
     const sNew = 1.134 * delta * Math.sqrt(Math.max(0, sq - (lin * lin) / p) / (p - 1));
     rounds++;
     if (!Number.isFinite(mean) || !Number.isFinite(sNew) || !(sNew > 0)) {
-      throw numError(`Algorithm A did not settle (${p} results): the robust SD left the range of numbers after ${rounds} rounds`);
+      throw numError(
+        `Algorithm A did not settle (${p} results): the robust SD left the range of numbers after ${rounds} rounds`,
+      );
     }
     const dx = Math.abs(mean - xs);
     const ds = Math.abs(sNew - ss);
@@ -238,7 +267,9 @@ export function consensus(values: ArrayLike<number>, maxRounds = CONSENSUS_MAX_R
   const robustSd = c * ss * unscale;
   const uncertainty = 1.25 * (robustSd / Math.sqrt(p));
   if (!Number.isFinite(robustMean) || !Number.isFinite(robustSd)) {
-    throw numError(`the robust mean or SD of these ${p} results is beyond the largest number a cell holds (about 1.8e308)`);
+    throw numError(
+      `the robust mean or SD of these ${p} results is beyond the largest number a cell holds (about 1.8e308)`,
+    );
   }
   return { robustMean, robustSd, participants: p, uncertainty, rounds };
 }
