@@ -178,13 +178,14 @@ function medianOfSorted(a: Float64Array): number {
  * max(|x*|, s*). It can always be met because the rounds run on the results centred on their
  * median and scaled by a power of two near median|xᵢ − x*|, where the rounding noise of a
  * round is a few 1e-16 of s*. A set that has not settled after `maxRounds` rounds (1,000) is
- * #NUM!, not a number that might still be moving: Algorithm A creeps when nearly half the
- * results are far outliers.
+ * #NUM!, not a number that might still be moving: Algorithm A creeps when a large share of
+ * the results (a quarter or more) lie far out. `maxRounds` is for tests; the worksheet
+ * function uses the default.
  *
  * Method: sorting for the medians; each round's mean by the corrected two-pass method and its
  * SD from the deviations divided by δ (every |xᵢ* − x*|/δ ≤ 2, so no square overflows or
- * underflows). Results at or beyond 2¹⁰⁰⁰ (about 1e301) in size are first scaled by 2⁻⁶⁴
- * (exact for every result above 1e-288). Settled x* and s* agree with a 60-digit evaluation
+ * underflows). When any result is 2¹⁰⁰⁰ (about 1e301) or more in size, all are first scaled
+ * by 2⁻⁶⁴ (exact for every result above 1e-288), so no difference or sum can overflow. Settled x* and s* agree with a 60-digit evaluation
  * of the same rounds, run to full settling, within 1e-10 of s* (the stop rule leaves up to a
  * few 1e-11), and x* within its own last bit besides.
  * Domain: at least 3 finite numbers (#NUM!).
