@@ -8,6 +8,7 @@ import type { ImportColumn, ImportProblem, ImportReport } from './types';
 /** One problem as one line: "row 4, column C (cvi): error: cvi must not be negative (got -2)". */
 export function formatProblem(p: ImportProblem): string {
   if (p.row === 0) return `file: ${p.severity}: ${p.message}`;
+  if (p.column === null && p.field === undefined) return `row ${p.row}: ${p.severity}: ${p.message}`;
   const where = p.column === null ? `row ${p.row}, column ${p.field ?? '?'} (missing)` : `row ${p.row}, column ${p.column}${p.field ? ` (${p.field})` : ''}`;
   return `${where}: ${p.severity}: ${p.message}`;
 }

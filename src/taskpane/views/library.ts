@@ -235,7 +235,7 @@ export function libraryView(ctx: PaneContext): View {
   replace(
     importBox,
     h('h2', {}, 'Import a table'),
-    h('p', { class: 'hint' }, `Columns: analyte, specimen, unit, cvi, cvg, source, limit_abs, limit_pct, level, note. analyte, cvi and source are required; CVs in percent. UTF-8, UTF-16 with BOM or Windows-1252; up to ${describeBytes(IMPORT_LIMITS.maxBytes)} and ${IMPORT_LIMITS.maxColumns} columns. Nothing is imported until you accept the report.`),
+    h('p', { class: 'hint' }, `Columns: analyte, specimen, unit, cvi, cvg, source, limit_abs, limit_pct, level, note. analyte, cvi and source are required; CVs in percent. UTF-8, UTF-16 with BOM or Windows-1252; up to ${IMPORT_LIMITS.maxBytes / (1024 * 1024)} MiB and ${IMPORT_LIMITS.maxColumns} columns. Nothing is imported until you accept the report.`),
     field('Name in the library', nameInput),
     field('CSV or TSV file', fileInput),
     h('div', { class: 'actions' }, fromRange),
@@ -336,7 +336,7 @@ export function libraryView(ctx: PaneContext): View {
 
   function problemItem(p: Problem): HTMLElement {
     const where =
-      p.row === 0 ? 'File' : p.column === null ? `Row ${p.row}, column “${p.field ?? '?'}” (missing)` : `Row ${p.row}, column ${p.column}${p.field ? ` (${p.field})` : ''}`;
+      p.row === 0 ? 'File' : p.column === null && p.field === undefined ? `Row ${p.row}` : p.column === null ? `Row ${p.row}, column “${p.field ?? '?'}” (missing)` : `Row ${p.row}, column ${p.column}${p.field ? ` (${p.field})` : ''}`;
     return h(
       'li',
       { class: `problem ${p.severity}`, 'data-row': String(p.row), 'data-column': p.column ?? '', 'data-code': p.code },
