@@ -52,21 +52,21 @@ describe('readNumberText: a value on its own', () => {
 });
 
 describe('the file decides an ambiguous value (one rule per test)', () => {
-  test('rule 1: numbers that show a decimal point make "1,000" one thousand and "1.000" one', () => {
+  test('rule 1 (the file\'s numbers): numbers that show a decimal point make "1,000" one thousand and "1.000" one', () => {
     const r = parseTableText('analyte,cvi,source,level,limit_pct\nA,5.7,s,"1,000",1.000\n');
     expect(r.problems).toEqual([]);
     expect(r.decimal).toEqual({ mark: '.', by: 'numbers' });
     expect(r.candidate!.rows[0]).toMatchObject({ level: 1000, limitPct: 1 });
   });
 
-  test('rule 1, the other way: numbers that show a decimal comma make "1,000" one and "1.000" one thousand', () => {
+  test('rule 1 (the file\'s numbers), the other way: numbers that show a decimal comma make "1,000" one and "1.000" one thousand', () => {
     const r = parseTableText('analyte;cvi;source;level;limit_pct\nA;5,7;s;1.000;1,000\n');
     expect(r.problems).toEqual([]);
     expect(r.decimal).toEqual({ mark: ',', by: 'numbers' });
     expect(r.candidate!.rows[0]).toMatchObject({ level: 1000, limitPct: 1 });
   });
 
-  test('rule 2: a value that shows both marks is evidence too ("1,234.5" → point; "1.234,5" → comma)', () => {
+  test('rule 1 (the file\'s numbers): a value that shows both marks is evidence too ("1,234.5" → point; "1.234,5" → comma)', () => {
     const point = parseTableText('analyte\tcvi\tsource\tlevel\tlimit_pct\nA\t5\ts\t1,234.5\t2.000\n');
     expect(point.decimal).toEqual({ mark: '.', by: 'numbers' });
     expect(point.candidate!.rows[0]).toMatchObject({ level: 1234.5, limitPct: 2 });
@@ -75,14 +75,14 @@ describe('the file decides an ambiguous value (one rule per test)', () => {
     expect(comma.candidate!.rows[0]).toMatchObject({ level: 1234.5, limitPct: 2000 });
   });
 
-  test('rule 3: with ";" as separator and no number showing a mark, a comma is decimal ("1,000" is one) but a point stays undecided', () => {
+  test('rule 3 (the separator): with ";" as separator and no number showing a mark, a comma is decimal ("1,000" is one) but a point stays undecided', () => {
     const r = parseTableText('analyte;cvi;source;level;limit_pct\nA;5;s;1,000;12\nB;6;s;4;1.000\n');
     expect(r.decimal).toEqual({ mark: ',', by: 'separator' });
     expect(where(r)).toEqual(['error ambiguous-number 3 E']);
     expect(r.problems[0].message).toMatch(/"1\.000" could be 1000 \("\." separating thousands\) or 1 \("\." as the decimal mark\)/);
   });
 
-  test('rule 4: a comma- or tab-separated file where no number shows its mark: the ambiguous value is an error naming its row, column and both readings', () => {
+  test('rule 4 (otherwise): a comma- or tab-separated file where no number shows its mark: the ambiguous value is an error naming its row, column and both readings', () => {
     const r = parseTableText('analyte,cvi,source,limit_pct\nArvelin,5,Invented,"1,000"\n');
     expect(r.ok).toBe(false);
     expect(r.decimal).toEqual({ mark: null, by: 'none' });
@@ -94,7 +94,7 @@ describe('the file decides an ambiguous value (one rule per test)', () => {
     expect(tab.problems[0].message).toContain('"12,3450" for 12.345');
   });
 
-  test('rule 5: numbers showing both marks decide nothing: an ambiguous value is an error that cites one of each', () => {
+  test('rule 2 (both marks shown): numbers showing both marks decide nothing: an ambiguous value is an error that cites one of each', () => {
     const r = parseTableText('analyte\tcvi\tcvg\tsource\tlevel\nA\t5,7\t6.9\ts\t1.000\n');
     expect(r.decimal).toEqual({ mark: null, by: 'mixed' });
     expect(where(r)).toEqual(['error ambiguous-number 2 E']);
