@@ -2,16 +2,80 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import type ExcelJS from 'exceljs';
+import { IMPORT_LIMITS, describeBytes } from '../engine/import/limits';
+import { decodeText } from '../engine/text/decode';
 
-/** Reads a text file; a missing or unreadable file is an Error whose message says which and why. */
-export function readText(file: string, what: string): string {
+function whyNot(e: unknown): string {
+  const code = (e as NodeJS.ErrnoException).code;
+  return code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' ? 'permission denied' : (e as Error).message;
+}
+
+function kindOf(st: fs.Stats): string {
+  if (st.isDirectory()) return 'it is a folder';
+  if (st.isFIFO()) return 'it is a named pipe, not a file';
+  if (st.isCharacterDevice() || st.isBlockDevice()) return 'it is a device, not a file';
+  if (st.isSocket()) return 'it is a socket, not a file';
+  return 'it is not a regular file';
+}
+
+/**
+ * Checks, before anything is read, that `file` is a regular file (not a folder, device, pipe or
+ * socket: /dev/zero or a FIFO would never end) of at most `limit` bytes. Returns its size.
+ */
+export function checkRegularFile(file: string, what: string, limit: number = IMPORT_LIMITS.maxBytes): number {
+  let st: fs.Stats;
   try {
-    return fs.readFileSync(file, 'utf8');
+    st = fs.statSync(file);
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' ? 'permission denied' : (e as Error).message;
-    throw new Error(`cannot read the ${what} ${file}: ${why}`);
+    throw new Error(`cannot read the ${what} ${file}: ${whyNot(e)}`);
   }
+  if (!st.isFile()) throw new Error(`cannot read the ${what} ${file}: ${kindOf(st)}`);
+  if (st.size > limit) throw new Error(`cannot read the ${what} ${file}: it is ${describeBytes(st.size)}, over Leeway's limit of ${describeBytes(limit)}`);
+  return st.size;
+}
+
+/**
+ * Reads a whole input file as bytes (the importer decodes them), after checkRegularFile. The file
+ * is opened without blocking and checked again through the open handle, so a file swapped for a
+ * pipe in between is refused too, and no more than `limit` bytes are ever read.
+ */
+export function readBytes(file: string, what: string, limit: number = IMPORT_LIMITS.maxBytes): Uint8Array {
+  checkRegularFile(file, what, limit);
+  let fd: number;
+  try {
+    fd = fs.openSync(file, fs.constants.O_RDONLY | (fs.constants.O_NONBLOCK ?? 0));
+  } catch (e) {
+    throw new Error(`cannot read the ${what} ${file}: ${whyNot(e)}`);
+  }
+  try {
+    const st = fs.fstatSync(fd);
+    if (!st.isFile()) throw new Error(`cannot read the ${what} ${file}: ${kindOf(st)}`);
+    if (st.size > limit) throw new Error(`cannot read the ${what} ${file}: it is ${describeBytes(st.size)}, over Leeway's limit of ${describeBytes(limit)}`);
+    const buf = Buffer.allocUnsafe(Math.min(st.size, limit) + 1);
+    let got = 0;
+    for (;;) {
+      const n = fs.readSync(fd, buf, got, buf.length - got, null);
+      if (n === 0) break;
+      got += n;
+      if (got > limit) throw new Error(`cannot read the ${what} ${file}: it grew past Leeway's limit of ${describeBytes(limit)} while being read`);
+      if (got === buf.length) break;
+    }
+    return new Uint8Array(buf.buffer, buf.byteOffset, got);
+  } finally {
+    fs.closeSync(fd);
+  }
+}
+
+
+/**
+ * Reads a text input through the importers' decoder (any accepted encoding). Prefer readBytes and
+ * the importers' parse…Bytes functions, whose report records the encoding and warns about
+ * Windows-1252; this one only refuses what cannot be decoded.
+ */
+export function readText(file: string, what: string): string {
+  const decoded = decodeText(readBytes(file, what));
+  if (!decoded.ok) throw new Error(`cannot read the ${what} ${file}: ${decoded.message}`);
+  return decoded.text;
 }
 
 /** Refuses an output path that exists unless forced, or whose folder does not exist. */

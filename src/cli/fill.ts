@@ -1,7 +1,7 @@
 /**
  * `leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B]
  *   [--template X.xlsx [--sheet S] [--at A1]] [--overwrite] [--force] [--live]`
- * fills an .xlsx headless by the rules of SPEC.md section 6, with the planner the task pane uses.
+ * fills an .xlsx headless by the worksheet-filling rules, with the planner the task pane uses.
  * By default derived columns are values (full precision; rounding only in the number format) and
  * each derived column's worksheet formula is in its header's note; --live writes LEEWAY formulas
  * (stored as Excel stores add-in calls, see xlsx.ts) with their results cached.
@@ -11,10 +11,10 @@ import type ExcelJS from 'exceljs';
 import { UsageError } from './call';
 import type { Io } from './main';
 import { one, readOptions } from './options';
-import { readText, checkOutput, writeWorkbookAtomically, today, newWorkbook } from './files';
+import { readBytes, checkRegularFile, checkOutput, writeWorkbookAtomically, today, newWorkbook } from './files';
 import { progressBar } from './progress';
 import { printSetup, readSnapshot, writePlan } from './xlsx';
-import { parseTableText, acceptImport, formatReport } from '../engine/table';
+import { parseTableBytes, acceptImport, formatProblem, formatReport } from '../engine/table';
 import type { HeaderMapping, Field } from '../engine/table';
 import { FIELDS } from '../engine/table';
 import { planFill, selectRows, parseA1, a1, formatConflicts, MAX_COLUMNS, MAX_ROWS } from '../engine/fill';
@@ -86,13 +86,14 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   // Refuse an existing output before any work.
   checkOutput(out, force);
 
-  const text = readText(tablePath, 'table');
-  const imported = parseTableText(text, { name: path.basename(tablePath), origin: path.resolve(tablePath), mapping: readMappings(o.values.get('map'), 'fill') });
+  const imported = parseTableBytes(readBytes(tablePath, 'table'), { name: path.basename(tablePath), origin: path.resolve(tablePath), mapping: readMappings(o.values.get('map'), 'fill') });
   if (!imported.ok) {
     for (const line of formatReport(imported)) io.err(line);
     io.err(`leeway fill: the table ${tablePath} has errors: nothing was written (see leeway check)`);
     return 1;
   }
+  // Warnings (an encoding read as Windows-1252, a unit that differs) do not stop a fill: say them.
+  for (const p of imported.problems) io.err(`leeway fill: ${formatProblem(p)}`);
   const table = acceptImport(imported);
   const names = (o.values.get('analytes') ?? []).flatMap((s) => s.split(',')).map((s) => s.trim()).filter(Boolean);
   const selection = selectRows(table, names);
@@ -104,7 +105,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   let target: FillRequest['target'];
   let ws: ExcelJS.Worksheet;
   if (template) {
-    readText(template, 'template');
+    checkRegularFile(template, 'template');
     try {
       await wb.xlsx.readFile(template);
     } catch (e) {

@@ -5,7 +5,7 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import { leeway, tempDir, TABLES } from './support';
-import { parseTableText, formatReport } from '../../src/engine/table';
+import { parseTableText, parseTableBytes, formatReading, formatReport } from '../../src/engine/table';
 
 const CORPUS = fs.readdirSync(TABLES).filter((f) => /\.(csv|tsv)$/.test(f));
 
@@ -18,7 +18,10 @@ describe('leeway check on the CSV corpus', () => {
     const full = path.join(TABLES, file);
     const expected = parseTableText(fs.readFileSync(full, 'utf8'));
     const r = await leeway('check', full);
-    expect(r.out).toEqual(formatReport(expected));
+    // First how the file was read and mapped (from its bytes), then the report of problems.
+    const reading = formatReading(parseTableBytes(fs.readFileSync(full)));
+    expect(r.out.slice(0, reading.length)).toEqual(reading);
+    expect(r.out.slice(reading.length)).toEqual(formatReport(expected));
     expect(r.code).toBe(expected.errorCount > 0 ? 1 : 0);
     expect(r.err).toEqual([]);
   });
@@ -26,7 +29,17 @@ describe('leeway check on the CSV corpus', () => {
   test('a header mapping on the command line is applied as in the pane', async () => {
     const r = await leeway('check', path.join(TABLES, 'aliases.csv'), '--map', 'Owner=note');
     expect(r.code).toBe(0);
-    expect(r.out).toEqual(['1 data row, 0 errors, 0 warnings']);
+    expect(r.out).toEqual([
+      'read: encoding UTF-8, separator ",", decimal mark "." (shown by the numbers)',
+      'column A "Test" → analyte (another name)',
+      'column B "Sample type" → specimen (another name)',
+      'column C "CV_I (%)" → cvi',
+      'column D "CVb %" → cvg (another name)',
+      'column E "Reference" → source (another name)',
+      'column F "Owner" → note (your mapping)',
+      'column G "Limit %" → limit_pct (another name)',
+      '1 data row, 0 errors, 0 warnings',
+    ]);
   });
 
   test('the 5 MB file of the corpus (generated here) reads through leeway check too', async () => {
@@ -38,7 +51,14 @@ describe('leeway check on the CSV corpus', () => {
     expect(fs.statSync(file).size).toBeGreaterThan(5 * 1024 * 1024);
     const r = await leeway('check', file);
     expect(r.code).toBe(0);
-    expect(r.out).toEqual([`${lines.length - 1} data rows, 0 errors, 0 warnings`]);
+    expect(r.out).toEqual([
+      'read: encoding UTF-8, separator ",", decimal mark "." (shown by the numbers)',
+      'column A "analyte" → analyte',
+      'column B "cvi" → cvi',
+      'column C "cvg" → cvg',
+      'column D "source" → source',
+      `${lines.length - 1} data rows, 0 errors, 0 warnings`,
+    ]);
   });
 
   test('no file, or one that cannot be read: exit 2 and 1 with a message', async () => {

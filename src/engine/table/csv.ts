@@ -1,5 +1,5 @@
 /**
- * Export of an accepted table back to CSV, with SPEC.md's column names. Text that a spreadsheet
+ * Export of an accepted table back to CSV, with the canonical column names. Text that a spreadsheet
  * would read as a formula (starting with = + - @), or that starts with an apostrophe, is written with a leading apostrophe, the
  * usual guard against formula injection; parseTableText() takes it off again, so export and
  * import round-trip.
@@ -47,7 +47,7 @@ function cell(row: VariationRow, f: Field, decimal: '.' | ','): string {
   }
 }
 
-/** The table as CSV text, one header row (SPEC.md names) and one row per analyte and specimen. */
+/** The table as CSV text, one header row (canonical names) and one row per analyte and specimen. */
 export function tableToCsv(table: VariationTable, options: CsvOptions = {}): string {
   const delimiter = options.delimiter ?? ',';
   const decimal = options.decimal ?? '.';

@@ -1,11 +1,16 @@
 /**
- * Header names: the canonical names of SPEC.md section 5 and the other names labs give the same
- * columns. Matching is case-insensitive and ignores spaces, underscores, hyphens, dots, a unit
- * in brackets and a trailing "%": "CV_I (%)", "cv i" and "CVI" all read as cvi.
+ * Header names of a variation table: the canonical column names and the other names labs give the
+ * same columns. Matching is case-insensitive and ignores spaces, underscores, hyphens, dots,
+ * colons and slashes; a bracketed part and a "%" are read, not dropped (see import/headers.ts):
+ * "CV_I (%)", "cv i" and "CVI" read as cvi; "Limit (%)" as limit_pct; "Limit (mmol/L)" and
+ * "TEa [µmol/L]" as limit_abs in that unit; a bare "Limit" is ambiguous.
  */
 import type { ColumnMapping, Field, HeaderMapping } from './types';
-import { FIELDS } from './types';
-import { columnLetters } from '../fill/a1';
+import { FIELDS, NUMERIC_FIELDS, REQUIRED_FIELDS } from './types';
+import { headerKey, readHeader } from '../import/headers';
+import type { UnitRule } from '../import/headers';
+import { columnsOf } from '../import/read';
+import type { ImportKind } from '../import/read';
 
 /** Other names for each field, already in normalised form (see normaliseHeader). */
 export const HEADER_ALIASES: Readonly<Record<Field, readonly string[]>> = {
@@ -15,50 +20,55 @@ export const HEADER_ALIASES: Readonly<Record<Field, readonly string[]>> = {
   cvi: ['cvw', 'cvwithin', 'withinsubjectcv', 'withinsubject', 'withinsubjectbiologicalvariation', 'intraindividualcv', 'intraindividual', 'cvintra', 'withinpersoncv', 'bvwithin'],
   cvg: ['cvb', 'cvbetween', 'betweensubjectcv', 'betweensubject', 'betweensubjectbiologicalvariation', 'interindividualcv', 'interindividual', 'cvinter', 'betweenpersoncv', 'bvbetween'],
   source: ['reference', 'ref', 'citation', 'datasource', 'sourceanddate', 'origin'],
-  limit_abs: ['limitabsolute', 'absolutelimit', 'fixedlimitabs', 'fixedabs', 'teaabs', 'teaabsolute', 'abslimit', 'limitunits'],
-  limit_pct: ['limitpercent', 'percentlimit', 'limit', 'fixedlimitpct', 'fixedpct', 'teapct', 'teapercent', 'pctlimit'],
+  limit_abs: ['limitabsolute', 'absolutelimit', 'fixedlimitabs', 'fixedabs', 'teaabs', 'teaabsolute', 'abslimit', 'limitunits', 'limitabs'],
+  // "limit", "tea" and the like say neither kind: see LIMIT_WORDS in import/headers.ts.
+  limit_pct: ['limitpercent', 'percentlimit', 'fixedlimitpct', 'fixedpct', 'teapct', 'teapercent', 'pctlimit', 'limitpct', 'fixedlimitpercent'],
   level: ['decisionlevel', 'medicaldecisionlevel', 'concentration', 'leveltested'],
   note: ['notes', 'comment', 'comments', 'remark', 'remarks'],
 };
 
-/** Lower case without spaces, _, -, ., :, /, a bracketed unit or "%": "CV_I (%)" → "cvi", "Limit %" → "limit". */
+const UNITS: Readonly<Record<Field, UnitRule>> = {
+  analyte: 'text',
+  specimen: 'text',
+  unit: 'text',
+  cvi: 'percent',
+  cvg: 'percent',
+  source: 'text',
+  limit_abs: 'amount',
+  limit_pct: 'percent',
+  level: 'amount',
+  note: 'text',
+};
+
+/** The variation table as a kind of file the importer reads. */
+export const TABLE_KIND: ImportKind<Field> = {
+  noun: 'table',
+  fields: FIELDS,
+  aliases: HEADER_ALIASES,
+  units: UNITS,
+  limits: { abs: 'limit_abs', pct: 'limit_pct' },
+  required: REQUIRED_FIELDS,
+  numeric: NUMERIC_FIELDS,
+  unitField: 'unit',
+  needs: 'a header row (analyte, cvi, source, …) and one row per analyte',
+};
+
+/** Lower case without spaces, _, -, ., :, /, bracketed parts or "%": "CV_I (%)" → "cvi", "Limit %" → "limit". */
 export function normaliseHeader(header: string): string {
-  return header
-    .replace(/^\uFEFF/, '')
-    .toLowerCase()
-    .replace(/\([^)]*\)|\[[^\]]*\]/g, '')
-    .replace(/[%\s_\-.:/]+/g, '');
+  return headerKey(header);
 }
 
-const BY_NAME = new Map<string, Field>();
-const BY_ALIAS = new Map<string, Field>();
-for (const f of FIELDS) {
-  BY_NAME.set(f.replace(/_/g, ''), f);
-  for (const a of HEADER_ALIASES[f]) BY_ALIAS.set(a, f);
-}
-
-/** The field a header names, and whether by its canonical name or an alias; undefined when none. */
-export function matchHeader(header: string): { field: Field; by: 'name' | 'alias' } | undefined {
-  const raw = header.replace(/^\uFEFF/, '').trim().toLowerCase();
-  if ((FIELDS as readonly string[]).includes(raw)) return { field: raw as Field, by: 'name' };
-  const key = normaliseHeader(header);
-  const byName = BY_NAME.get(key);
-  if (byName) return { field: byName, by: 'name' };
-  const byAlias = BY_ALIAS.get(key);
-  if (byAlias) return { field: byAlias, by: 'alias' };
-  return undefined;
+/**
+ * The field a header names, whether by its canonical name or an alias, and the unit it states;
+ * undefined when it names none, or is ambiguous ("Limit" alone: percent or absolute?).
+ */
+export function matchHeader(header: string): { field: Field; by: 'name' | 'alias'; unit?: string } | undefined {
+  const r = readHeader(TABLE_KIND, header);
+  if (r.kind !== 'field') return undefined;
+  return r.unit === undefined ? { field: r.field, by: r.by } : { field: r.field, by: r.by, unit: r.unit };
 }
 
 /** Maps each header onto a field: the user's mapping first, then names, then aliases. */
 export function mapColumns(headers: readonly string[], mapping: HeaderMapping = {}, firstColumn = 1): ColumnMapping[] {
-  return headers.map((h, i) => {
-    const header = h.replace(/^\uFEFF/, '').trim();
-    const index = firstColumn + i;
-    const letter = columnLetters(index);
-    if (Object.prototype.hasOwnProperty.call(mapping, header)) {
-      return { index, letter, header, field: mapping[header], by: 'user' as const };
-    }
-    const m = header === '' ? undefined : matchHeader(header);
-    return m ? { index, letter, header, field: m.field, by: m.by } : { index, letter, header, field: null, by: 'none' as const };
-  });
+  return columnsOf(TABLE_KIND, headers, mapping, firstColumn);
 }

@@ -1,9 +1,10 @@
 /**
- * The variation table (SPEC.md section 5): the laboratory's own biological-variation data, one
- * row per analyte and specimen. CVs are percent numbers (5.7 means 5.7 %).
+ * The variation table: the laboratory's own biological-variation data, one row per analyte and
+ * specimen. CVs are percent numbers (5.7 means 5.7 %).
  */
+import type { ImportColumn, ImportProblem, ImportReport } from '../import/types';
 
-/** The columns of SPEC.md section 5, in its order. */
+/** The columns of a variation table, in their documented order. */
 export type Field = 'analyte' | 'specimen' | 'unit' | 'cvi' | 'cvg' | 'source' | 'limit_abs' | 'limit_pct' | 'level' | 'note';
 
 export const FIELDS: readonly Field[] = ['analyte', 'specimen', 'unit', 'cvi', 'cvg', 'source', 'limit_abs', 'limit_pct', 'level', 'note'];
@@ -48,51 +49,13 @@ export interface VariationTable {
   readonly rows: readonly VariationRow[];
 }
 
-export type Severity = 'error' | 'warning';
+export type { Severity, ProblemCode } from '../import/types';
 
-export type ProblemCode =
-  | 'empty-file'
-  | 'no-data'
-  | 'missing-column'
-  | 'duplicate-column'
-  | 'unknown-header'
-  | 'blank-header'
-  | 'extra-fields'
-  | 'parse'
-  | 'missing-value'
-  | 'not-a-number'
-  | 'negative'
-  | 'zero'
-  | 'implausible'
-  | 'needs-level'
-  | 'duplicate-row';
+/** One finding of the import check, located as a spreadsheet shows the file (row 0: the whole file). */
+export type Problem = ImportProblem<Field>;
 
-/** One finding of the import check, located as a spreadsheet shows the file. */
-export interface Problem {
-  readonly severity: Severity;
-  readonly code: ProblemCode;
-  /** 1-based row; the header is row 1. */
-  readonly row: number;
-  /** Column letters (A, B, …), or null when the problem is a column that is missing altogether. */
-  readonly column: string | null;
-  /** The field concerned, when there is one. */
-  readonly field?: Field;
-  /** Says what is wrong and what to do. */
-  readonly message: string;
-}
-
-/** How one column of the file is read. */
-export interface ColumnMapping {
-  /** 1-based column number. */
-  readonly index: number;
-  readonly letter: string;
-  /** The header text as written in the file (trimmed). */
-  readonly header: string;
-  /** The field it feeds, or null: ignored. */
-  readonly field: Field | null;
-  /** How the field was chosen. */
-  readonly by: 'name' | 'alias' | 'user' | 'none';
-}
+/** How one column of the file is read (and the unit its header states, for a limit or level). */
+export type ColumnMapping = ImportColumn<Field>;
 
 /**
  * A user's correction of the header match, keyed by the header text as shown in the file
@@ -119,17 +82,9 @@ export interface ImportOptions {
 /**
  * The outcome of reading a table: nothing is imported yet. `candidate` holds the table that
  * acceptImport() turns into a VariationTable; it is present only when there are no errors.
+ * Besides the problems and columns it records the encoding found (when read from bytes) and the
+ * file's decimal mark.
  */
-export interface ImportResult {
-  /** True when there are no errors (warnings may remain). */
-  readonly ok: boolean;
-  readonly problems: readonly Problem[];
-  readonly errorCount: number;
-  readonly warningCount: number;
-  readonly columns: readonly ColumnMapping[];
-  /** The separator found: ',', ';' or '\t' ('' for a worksheet range or an empty file). */
-  readonly delimiter: string;
-  /** Data rows read (blank lines not counted). */
-  readonly rowCount: number;
+export interface ImportResult extends ImportReport<Field> {
   readonly candidate?: VariationTable;
 }

@@ -1,6 +1,6 @@
 /**
- * Tables view: the user's library of variation tables (SPEC.md section 5). Import from a CSV/TSV
- * file or the selected worksheet range, map headers, read the report of every problem (row and
+ * Tables view: the user's library of variation tables. Import from a CSV/TSV file (its bytes, in
+ * any encoding the importer reads, within the importer's size limit) or the selected worksheet range, map headers, read the report of every problem (row and
  * column as a spreadsheet shows them), and only then accept. Rename, delete (with an inline
  * confirmation: add-ins may not open alert/confirm dialogs), export to CSV. The demo table is
  * built in and always marked as demo data.
@@ -10,10 +10,11 @@ import type { PaneContext, View } from '../app';
 import {
   acceptImport,
   FIELDS,
+  parseTableBytes,
   parseTableGrid,
-  parseTableText,
   tableToCsv,
 } from '../../engine/table';
+import { IMPORT_LIMITS, describeBytes, decimalText } from '../../engine/import';
 import type { Field, GridCell, HeaderMapping, ImportResult, Problem, VariationTable } from '../../engine/table';
 import { DEMO_MARKER } from '../../engine/caution';
 import type { TableMeta } from '../store';
@@ -24,7 +25,7 @@ import { DEMO_ID, demoTable } from '../demo';
 const REPORT_PAGE = 200;
 
 type Pending =
-  | { kind: 'text'; text: string; name: string; origin: string }
+  | { kind: 'bytes'; bytes: Uint8Array; name: string; origin: string }
   | { kind: 'grid'; grid: GridCell[][]; name: string; origin: string; firstRow: number; firstColumn: number };
 
 function dateOf(iso: string): string {
@@ -190,10 +191,17 @@ export function libraryView(ctx: PaneContext): View {
   fileInput.addEventListener('change', () => {
     const f = fileInput.files && fileInput.files[0];
     if (!f) return;
+    // The size limit applies before the file is read.
+    if (f.size > IMPORT_LIMITS.maxBytes) {
+      ctx.status(`${f.name} is ${describeBytes(f.size)}, over the limit of ${describeBytes(IMPORT_LIMITS.maxBytes)}: nothing was read. Save only the table itself.`, 'error');
+      fileInput.value = '';
+      return;
+    }
     ctx.status(`Reading ${f.name}…`, 'busy');
-    f.text().then(
-      (text) => {
-        pending = { kind: 'text', text, name: nameInput.value.trim() || f.name.replace(/\.(csv|tsv|txt)$/i, ''), origin: f.name };
+    // Bytes, not text: the importer finds the encoding (UTF-8, UTF-16 with BOM, Windows-1252).
+    f.arrayBuffer().then(
+      (buffer) => {
+        pending = { kind: 'bytes', bytes: new Uint8Array(buffer), name: nameInput.value.trim() || f.name.replace(/\.(csv|tsv|txt)$/i, ''), origin: f.name };
         mapping = {};
         showAll = false;
         // Let the status paint before a large file is parsed.
@@ -227,7 +235,7 @@ export function libraryView(ctx: PaneContext): View {
   replace(
     importBox,
     h('h2', {}, 'Import a table'),
-    h('p', { class: 'hint' }, 'Columns: analyte, specimen, unit, cvi, cvg, source, limit_abs, limit_pct, level, note. analyte, cvi and source are required; CVs in percent. Nothing is imported until you accept the report.'),
+    h('p', { class: 'hint' }, `Columns: analyte, specimen, unit, cvi, cvg, source, limit_abs, limit_pct, level, note. analyte, cvi and source are required; CVs in percent. UTF-8, UTF-16 with BOM or Windows-1252; up to ${IMPORT_LIMITS.maxBytes / (1024 * 1024)} MiB and ${IMPORT_LIMITS.maxColumns} columns. Nothing is imported until you accept the report.`),
     field('Name in the library', nameInput),
     field('CSV or TSV file', fileInput),
     h('div', { class: 'actions' }, fromRange),
@@ -238,8 +246,8 @@ export function libraryView(ctx: PaneContext): View {
     const t0 = performance.now();
     const opts = { name: pending.name, origin: pending.origin, mapping: mapping as HeaderMapping };
     result =
-      pending.kind === 'text'
-        ? parseTableText(pending.text, opts)
+      pending.kind === 'bytes'
+        ? parseTableBytes(pending.bytes, opts)
         : parseTableGrid(pending.grid, { ...opts, firstRow: pending.firstRow, firstColumn: pending.firstColumn });
     const ms = performance.now() - t0;
     renderReview();
@@ -279,7 +287,13 @@ export function libraryView(ctx: PaneContext): View {
           {},
           h('th', { scope: 'row' }, c.letter),
           h('td', { class: 'header-text' }, c.header || '(blank)'),
-          h('td', {}, sel, c.by === 'alias' ? h('span', { class: 'hint' }, ' matched by another name') : null),
+          h(
+            'td',
+            {},
+            sel,
+            c.unit !== undefined && c.field !== null ? h('span', { class: 'unit', 'data-unit': c.unit }, ` unit ${c.unit}`) : null,
+            c.by === 'alias' ? h('span', { class: 'hint' }, ' matched by another name') : null,
+          ),
         ),
       );
     }
@@ -300,12 +314,14 @@ export function libraryView(ctx: PaneContext): View {
         'p',
         { class: `summary-line ${r.ok ? 'ok' : 'error'}`, id: 'report-summary' },
         `${r.rowCount} data row${r.rowCount === 1 ? '' : 's'}, ${r.errorCount} error${r.errorCount === 1 ? '' : 's'}, ${r.warningCount} warning${r.warningCount === 1 ? '' : 's'}` +
-          (r.delimiter ? ` · separator ${r.delimiter === '\t' ? 'tab' : `“${r.delimiter}”`}` : ''),
+          (r.delimiter ? ` · separator ${r.delimiter === '\t' ? 'tab' : `“${r.delimiter}”`}` : '') +
+          (r.encoding ? ` · ${r.encoding}` : '') +
+          (decimalText(r) ? ` · ${decimalText(r)}` : ''),
       ),
       r.columns.length
         ? h(
             'details',
-            { class: 'mapping', open: r.columns.some((c) => c.field === null) || r.columns.some((c) => c.by === 'alias') },
+            { class: 'mapping', open: r.columns.some((c) => c.field === null || c.by === 'alias' || c.unit !== undefined) },
             h('summary', {}, 'Header mapping'),
             h('table', { class: 'grid-table' }, h('thead', {}, h('tr', {}, h('th', { scope: 'col' }, 'Col'), h('th', { scope: 'col' }, 'Header'), h('th', { scope: 'col' }, 'Reads as'))), mapRows),
           )
@@ -319,7 +335,8 @@ export function libraryView(ctx: PaneContext): View {
   }
 
   function problemItem(p: Problem): HTMLElement {
-    const where = p.column === null ? `Row ${p.row}, column “${p.field ?? '?'}” (missing)` : `Row ${p.row}, column ${p.column}${p.field ? ` (${p.field})` : ''}`;
+    const where =
+      p.row === 0 ? 'File' : p.column === null && p.field === undefined ? `Row ${p.row}` : p.column === null ? `Row ${p.row}, column “${p.field ?? '?'}” (missing)` : `Row ${p.row}, column ${p.column}${p.field ? ` (${p.field})` : ''}`;
     return h(
       'li',
       { class: `problem ${p.severity}`, 'data-row': String(p.row), 'data-column': p.column ?? '', 'data-code': p.code },
