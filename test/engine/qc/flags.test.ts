@@ -238,9 +238,10 @@ describe('a target and an SD per result', () => {
     expect(at).toEqual(['', '1-2s']);
     const past = controlFlags({ values: [1.6001, 1.3001], target: [1, 1], sd: [0.3, 0.1], rule: parseRule('1-2s/1-3s') });
     expect(past).toEqual(['1-2s', '1-2s/1-3s']);
-    // R-4s at exactly 4 SD: (1.6 − 1)/0.3 − (0.4 − 1)/0.3 computes just above 4.
-    expect((1.6 - 1) / 0.3 - (0.4 - 1) / 0.3).toBeGreaterThan(4);
-    expect(controlFlags({ values: [1.6, 0.4], target: [1, 1], sd: [0.3, 0.3], rule: parseRule('R-4s'), runs: [1, 1] })).toEqual(['', '']);
+    // R-4s at exactly 4 SD: (1.3 − 1)/0.15 − (0.7 − 1)/0.15 computes as 4.000000000000001.
+    expect((1.3 - 1) / 0.15 - (0.7 - 1) / 0.15).toBeGreaterThan(4);
+    expect(controlFlags({ values: [1.3, 0.7], target: [1, 1], sd: [0.15, 0.15], rule: parseRule('R-4s'), runs: [1, 1] })).toEqual(['', '']);
+    expect(controlFlags({ values: [1.3, 0.6999], target: [1, 1], sd: [0.15, 0.15], rule: parseRule('R-4s'), runs: [1, 1] })).toEqual(['', 'R-4s']);
   });
 });
 
