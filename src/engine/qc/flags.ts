@@ -352,7 +352,7 @@ export function evaluateControls(input: ControlSeries): ControlEvaluation {
           const b = extend(levelTrail[lt + j], s);
           allTrail[j] = a;
           levelTrail[lt + j] = b;
-          hit = Math.abs(a) >= t.count || Math.abs(b) >= t.count;
+          hit = a >= t.count || -a >= t.count || b >= t.count || -b >= t.count;
           break;
         }
         case 'window': {
