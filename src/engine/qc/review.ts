@@ -18,12 +18,17 @@
  * 100 results (the domain of QC.FALSEREJECT, #NUM!). No result with a number at all: #NUM!.
  *
  * Reading Share of runs flagged against Expected false rejection: the expected figure is the
- * rejection probability of a run whose rules see no earlier runs. Counting terms also read
- * across runs (10-x, 4-1s), and in a long stable series a flagged run is often followed by
- * another (the same streak continues), so a long stable series is flagged somewhat more often
- * than this figure: for 10-x with one control per run, 1/512 of runs against 1/1024 for the
- * first run (see docs/reference/control-review.md). A share far above the expected figure says
- * the method is not as stable as the target and SD in use assume.
+ * rejection probability of a run read with no earlier runs, the quantity QC.FALSEREJECT
+ * designs for. The counting terms also read across runs (4-1s, 10-x) and, with several
+ * materials, in two sequences; every result counts, so deep in a long stable series a run is
+ * flagged more often than this figure (flags cluster: a streak that has completed 10-x flags every
+ * further result that continues it). Stable series, one material, simulated: with
+ * 1-3s/2-2s/R-4s/4-1s/10-x and 2 controls per run about 1.6 % of runs are flagged against an
+ * expected 0.97 %; with 4 controls 4.0 % against 3.3 %; 10-x with one control per run flags
+ * 1/512 of runs against an expected 0 (test/engine/qc/flags-design.test.ts); two materials
+ * read in both sequences flag more again. So a stable method's share is usually somewhat above
+ * the expected figure: read it with Mean z (near 0) and SD of z (near 1). A share several times
+ * the expected figure, or SD of z well above 1, says the method varies more than the SD in use.
  * Source: Westgard JO, Barry PL, Hunt MR, Groth T. Clin Chem 1981;27:493–501.
  */
 import { LeewayError, isLeewayError, numError } from '../errors';
