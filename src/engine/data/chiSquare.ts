@@ -46,6 +46,7 @@ import { lnGamma, stirlingTail } from './studentT';
 
 const LN_SQRT_2PI = 0.91893853320467274178;
 const TINY = 1e-300;
+const SMALLEST_NORMAL = 2.2250738585072014e-308;
 
 /** ln(1 + u) − u, u > −1, without cancellation for small |u|. */
 export function log1pMinus(u: number): number {
@@ -188,6 +189,8 @@ function gammaRoot(a: number, lnTarget: number, upper: boolean, start: number): 
     let next = Number.isFinite(step) ? y * Math.exp(Math.max(-50, Math.min(50, step))) : NaN;
     if (!(next > lo && next < hi)) next = hi === Infinity ? y * 16 : lo === 0 ? y / 16 : Math.sqrt(lo * hi);
     if (hi < Infinity && hi - lo <= 4e-16 * hi) return next;
+    // The root lies below the normal range of doubles: report the underflow as 0.
+    if (hi <= SMALLEST_NORMAL) return 0;
     y = next;
   }
   return y;

@@ -149,6 +149,9 @@ describe('chi-square tails and quantile are consistent', () => {
     expect(chiSquareQuantile(0.5, Infinity)).toBeNaN();
     expect(chiSquareQuantile(1.5, 3)).toBeNaN();
     expect(chiSquareQuantile(NaN, 3)).toBeNaN();
+    // A root below the normal range of doubles is reported as 0 (χ²_{1e-10}(0.02) ≈ 2·(1e-10)^100).
+    expect(chiSquareQuantile(1e-10, 0.02)).toBe(0);
+    expect(chiSquareUpperQuantile(0.99, 0.002)).toBe(0);
   });
 
   // ln(1 + u) − u against a 40-digit decimal.js value (decimal.js ln).
