@@ -8,6 +8,15 @@
  *   repeatability SD  s_r = √MS_within
  *   between-group SD  s_b = √max(0, (MS_between − MS_within) / n₀)
  *   within-lab SD     s_WL = √(s_r² + s_b²)
+ *   repeatability df  ν_r = N − k
+ *   within-lab df     ν_WL = s_WL⁴ / [ (MS_between/n₀)²/(k − 1) + ((1 − 1/n₀)·MS_within)²/(N − k) ]
+ *                     when s_b² > 0 (then s_WL² = MS_between/n₀ + (1 − 1/n₀)·MS_within, a linear
+ *                     combination of the two mean squares), else ν_WL = N − k (s_WL = s_r)
+ *
+ * The within-lab df is Satterthwaite's approximation for a linear combination of mean squares
+ * (Satterthwaite FE. An approximate distribution of estimates of variance components. Biometrics
+ * Bulletin 1946;2:110–4), as CLSI EP15-A3 uses it for the within-laboratory SD; it may be
+ * fractional and lies between min(k − 1, N − k) and (k − 1) + (N − k). n₀ ≥ 1 whenever N > k.
  *
  * k groups, N results, nᵢ results in group i; a group of one result counts in k, N and n₀.
  * Units: SDs in the unit of the results, CVs in percent of the grand mean x̄ (mean of all N).
@@ -36,6 +45,28 @@ export interface PrecisionResult {
   readonly msBetween: number;
   readonly msWithin: number;
   readonly n0: number;
+  /** Σnᵢ², the sum of the squared group sizes. */
+  readonly sumSquaredCounts: number;
+  /** s_b² = max(0, (MS_between − MS_within)/n₀), the between-group variance (floored at 0). */
+  readonly betweenVariance: number;
+  /** ν_r = N − k, degrees of freedom of the repeatability variance. */
+  readonly repeatabilityDf: number;
+  /** ν_WL, Satterthwaite's degrees of freedom of the within-lab variance (N − k when s_b² = 0). */
+  readonly withinLabDf: number;
+}
+
+/**
+ * Satterthwaite's degrees of freedom of v₁ + v₂, each vᵢ an independent variance estimate (a
+ * multiple of a mean square) with νᵢ degrees of freedom: (v₁ + v₂)² / (v₁²/ν₁ + v₂²/ν₂).
+ * The terms may be negative (a difference of mean squares) as long as v₁ + v₂ > 0. Formed from
+ * the shares vᵢ/(v₁ + v₂), so no square overflows or underflows. Satterthwaite FE, Biometrics
+ * Bulletin 1946;2:110–4.
+ */
+export function satterthwaiteDf(v1: number, nu1: number, v2: number, nu2: number): number {
+  const total = v1 + v2;
+  const s1 = v1 / total;
+  const s2 = v2 / total;
+  return 1 / ((s1 * s1) / nu1 + (s2 * s2) / nu2);
 }
 
 /**
@@ -112,6 +143,7 @@ export function oneWayPrecision(values: ArrayLike<number>, groups: ArrayLike<str
   const msBetween = ssBetween / (k - 1);
   const n0 = (N - sumSqCounts / N) / (k - 1);
   const betweenVar = Math.max(0, (msBetween - msWithin) / n0);
+  const withinLabDf = betweenVar > 0 ? satterthwaiteDf(msBetween / n0, k - 1, (1 - 1 / n0) * msWithin, N - k) : N - k;
   return {
     mean: shift + m,
     repeatabilitySd: Math.sqrt(msWithin),
@@ -124,5 +156,9 @@ export function oneWayPrecision(values: ArrayLike<number>, groups: ArrayLike<str
     msBetween,
     msWithin,
     n0,
+    sumSquaredCounts: sumSqCounts,
+    betweenVariance: betweenVar,
+    repeatabilityDf: N - k,
+    withinLabDf,
   };
 }

@@ -45,7 +45,7 @@ export function lnGamma(x: number): number {
 }
 
 /** The Stirling series ln Γ(x) − [(x − ½)ln x − x + ½ln 2π] to the x^−13 term, x ≥ 10 (A&S 6.1.41; error < 1e-16). */
-function stirlingTail(x: number): number {
+export function stirlingTail(x: number): number {
   const r = 1 / (x * x);
   return (
     (1 / x) *

@@ -1,6 +1,6 @@
 import Decimal from 'decimal.js';
 import { oneWayPrecision } from '../../../src/engine/data/precision';
-import { lre, mulberry32, uniform } from '../../support/prng';
+import { lre, mulberry32, relClose, uniform } from '../../support/prng';
 import { anova, lreRow } from './nist';
 
 // NIST StRD one-way ANOVA (test/fixtures/nist-strd). Repeatability SD = certified residual SD;
@@ -186,5 +186,85 @@ describe('DATA.PRECISION bad input', () => {
   });
   test('if values and groups differ in length, throws #VALUE!', () => {
     expect(() => oneWayPrecision([1, 2, 3], ['a', 'b'])).toThrow(expect.objectContaining({ code: '#VALUE!' }));
+  });
+});
+
+describe('DATA.PRECISION degrees of freedom (repeatability N − k, within-lab by Satterthwaite)', () => {
+  // NIST StRD one-way ANOVA files: the certified between and within mean squares and their df
+  // (file headers). The expected within-lab df is computed here from those certified values by
+  // Satterthwaite's formula (Satterthwaite FE, Biometrics Bulletin 1946;2:110–4) for
+  // s_WL² = MS_B/n₀ + (1 − 1/n₀)·MS_W, n₀ = N/k in these balanced designs, written out
+  // independently of the engine (plain squares, no shares). The engine computes it from the raw
+  // data. Tolerance: relative 1e-8 where the engine's mean squares carry ≥ 9 digits (lower and
+  // average difficulty), 1e-3 for SmLs07–09, whose doubles carry only 3.5–4.5 digits of each
+  // deviation (see the LRE table above).
+  test.each(FILES)('NIST StRD %s (%s difficulty): ν_WL from the certified mean squares', (file, _l, required) => {
+    const d = anova(file);
+    const p = oneWayPrecision(d.values, d.groups);
+    const k = d.dfBetween + 1;
+    const N = d.dfWithin + k;
+    const n0 = N / k;
+    const between = d.msBetween / n0;
+    const within = (1 - 1 / n0) * d.msWithin;
+    const expected = (between + within) ** 2 / (between ** 2 / d.dfBetween + within ** 2 / d.dfWithin);
+    expect(d.msBetween).toBeGreaterThan(d.msWithin); // every file has a positive between-group component
+    const tol = required >= 9 ? 1e-8 : 1e-3;
+    expect(relClose(p.withinLabDf, expected, tol)).toBe(true);
+    expect(p.repeatabilityDf).toBe(d.dfWithin);
+    expect(p.sumSquaredCounts).toBe(k * n0 * n0);
+    // ν_WL lies between the smaller df and their sum (Satterthwaite, positive terms).
+    expect(p.withinLabDf).toBeGreaterThanOrEqual(Math.min(d.dfBetween, d.dfWithin) * (1 - 1e-12));
+    expect(p.withinLabDf).toBeLessThanOrEqual((d.dfBetween + d.dfWithin) * (1 + 1e-12));
+  });
+
+  // Hand-checked (common practice, no source): the unbalanced example above, groups {1, 2, 3},
+  // {5, 7}, {10}: MS_B = 80/3, MS_W = 4/3, n₀ = 11/6, k − 1 = 2, N − k = 3.
+  // s_WL² = (80/3)/(11/6) + (5/11)·(4/3) = 160/11 + 20/33 = 500/33;
+  // ν_WL = (500/33)² / [ (160/11)²/2 + (20/33)²/3 ] = 250000/1089 / (12800/121 + 400/3267)
+  //      = 250000 / (115200 + 400/3) = 750000/346000 = 375/173.
+  test('hand-checked unbalanced design: ν_WL = 375/173, ν_r = 3', () => {
+    const p = oneWayPrecision([1, 2, 3, 5, 7, 10], ['a', 'a', 'a', 'b', 'b', 'c']);
+    expect(relClose(p.withinLabDf, 375 / 173, 1e-14)).toBe(true);
+    expect(p.repeatabilityDf).toBe(3);
+    expect(p.sumSquaredCounts).toBe(14);
+    expect(relClose(p.betweenVariance, 152 / 11, 1e-14)).toBe(true);
+  });
+
+  // Seed 3103: s_WL² = MS_B/n₀ + (1 − 1/n₀)·MS_W equals s_r² + s_b² (the within-lab SD) whenever
+  // s_b² > 0, and ν_WL = N − k when the between-group variance is floored at 0.
+  test('identity s_WL² = MS_B/n₀ + (1 − 1/n₀)·MS_W; the floored case gives N − k', () => {
+    const rand = mulberry32(3103);
+    let floored = 0;
+    let positive = 0;
+    for (let t = 0; t < 1000; t++) {
+      const k = 2 + Math.floor(rand() * 6);
+      const values: number[] = [];
+      const groups: number[] = [];
+      const spread = rand() < 0.4 ? 0 : uniform(rand, 0, 3);
+      for (let g = 0; g < k; g++) {
+        const n = 1 + Math.floor(rand() * 5);
+        const run = uniform(rand, -spread, spread);
+        for (let j = 0; j < n; j++) {
+          values.push(50 + run + uniform(rand, -1, 1));
+          groups.push(g);
+        }
+      }
+      if (values.length === k) continue;
+      const p = oneWayPrecision(values, groups);
+      const N = values.length;
+      expect(p.repeatabilityDf).toBe(N - k);
+      if (p.betweenVariance > 0) {
+        positive++;
+        const sum = p.msBetween / p.n0 + (1 - 1 / p.n0) * p.msWithin;
+        expect(relClose(p.withinLabSd ** 2, sum, 1e-12)).toBe(true);
+        expect(p.withinLabDf).toBeGreaterThanOrEqual(Math.min(k - 1, N - k) * (1 - 1e-12));
+        expect(p.withinLabDf).toBeLessThanOrEqual((N - 1) * (1 + 1e-12));
+      } else {
+        floored++;
+        expect(p.withinLabDf).toBe(N - k);
+      }
+    }
+    expect(floored).toBeGreaterThan(50);
+    expect(positive).toBeGreaterThan(50);
   });
 });
