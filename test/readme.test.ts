@@ -71,6 +71,12 @@ describe('README function table', () => {
       expect(out.length).toBe(4);
       return expect(out.every((r) => r.length === 4)).toBe(true);
     }
+    if (result.startsWith('column: ')) {
+      // "column: a, b, …": each cell of a spilled column, in order.
+      const shown = result.slice('column: '.length).split(', ');
+      expect(out.length).toBe(shown.length);
+      return shown.forEach((s, i) => (s.startsWith('"') ? expect(out[i][0]).toBe(s.slice(1, -1)) : closeToShown(out[i][0], s)));
+    }
     if (/^-?\d/.test(result)) return closeToShown(out[0][0], result);
     if (result.startsWith('"')) return expect(out[0][0]).toBe(result.slice(1, -1));
     // "spill: `Label` value, `Label` value": each named figure of the labelled spill.

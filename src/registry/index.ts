@@ -8,13 +8,23 @@ import { PERF_FUNCTIONS } from './catalogue/perf';
 import { BV_FUNCTIONS } from './catalogue/bv';
 import { DATA_FUNCTIONS } from './catalogue/data';
 import { QC_FUNCTIONS } from './catalogue/qc';
+import { VERIFY_FUNCTIONS } from './catalogue/verify';
+import { EQA_FUNCTIONS } from './catalogue/eqa';
 import { compile, Evaluator } from './evaluate';
 import type { FunctionDef } from './define';
 import type { Arg, ErrorCell, Output } from './types';
 
 export const NAMESPACE = 'LEEWAY';
 
-export const FUNCTIONS: readonly FunctionDef[] = [...SPEC_FUNCTIONS, ...PERF_FUNCTIONS, ...BV_FUNCTIONS, ...DATA_FUNCTIONS, ...QC_FUNCTIONS];
+export const FUNCTIONS: readonly FunctionDef[] = [
+  ...SPEC_FUNCTIONS,
+  ...PERF_FUNCTIONS,
+  ...BV_FUNCTIONS,
+  ...DATA_FUNCTIONS,
+  ...QC_FUNCTIONS,
+  ...VERIFY_FUNCTIONS,
+  ...EQA_FUNCTIONS,
+];
 
 const BY_NAME = new Map<string, FunctionDef>(FUNCTIONS.map((f) => [f.name, f]));
 

@@ -100,7 +100,7 @@ export function shownNumber(x: number): string {
 
 function shownCell(v: OutCell): string {
   if (typeof v === 'number') return shownNumber(v);
-  if (typeof v === 'string') return v === '' ? '(empty)' : `"${v}"`;
+  if (typeof v === 'string') return `"${v}"`;
   if (typeof v === 'boolean') return v ? 'TRUE' : 'FALSE';
   return `${v.error} ${v.message}`;
 }
@@ -114,6 +114,7 @@ export function shownResult(def: FunctionDef): string {
     const show = def.doc.example.show ?? labels.slice(0, 3);
     return 'spill: ' + show.map((l) => `\`${l}\` ${shownCell(out[1][labels.indexOf(l)])}`).join(', ');
   }
+  if (out[0].length === 1 && out.length <= 8) return 'column: ' + out.map((row) => shownCell(row[0])).join(', ');
   return `${out.length}×${out[0].length} spill`;
 }
 

@@ -69,7 +69,7 @@ describe('DATA.BIAS and DATA.RMSBIAS', () => {
 });
 
 describe('DATA.PRECISION', () => {
-  const LABELS = ['Mean', 'Repeatability SD', 'Between-group SD', 'Within-lab SD', 'Repeatability CV %', 'Within-lab CV %', 'Groups', 'Results'];
+  const LABELS = ['Mean', 'Repeatability SD', 'Between-group SD', 'Within-lab SD', 'Repeatability CV %', 'Within-lab CV %', 'Groups', 'Results', 'Within-lab df'];
 
   // Common practice, no source: runs {1, 2}, {3, 4}, {5, 6}: MS_within 0.5, MS_between 8,
   // n₀ = 2, between variance 3.75.
@@ -77,7 +77,10 @@ describe('DATA.PRECISION', () => {
     const out = evaluate('DATA.PRECISION', [col(1, 2, 3, 4, 5, 6), col('A', 'A', 'B', 'B', 'C', 'C')]);
     expect(out.length).toBe(2);
     expect(out[0]).toEqual(LABELS);
-    const [m, sr, sb, swl, cvr, cvwl, k, n] = out[1] as number[];
+    const [m, sr, sb, swl, cvr, cvwl, k, n, df] = out[1] as number[];
+    // Satterthwaite (Biometrics Bulletin 1946;2:110–4) by hand: s_WL² = 8/2 + (1 − 1/2)·0.5 = 4.25,
+    // ν = 4.25² / [(8/2)²/2 + (0.25)²/3] = 18.0625 / 8.0208333….
+    expect(Math.abs(df - 18.0625 / (8 + 0.0625 / 3))).toBeLessThanOrEqual(1e-13);
     expect(m).toBe(3.5);
     expect(Math.abs(sr - Math.sqrt(0.5))).toBeLessThanOrEqual(1e-15);
     expect(Math.abs(sb - Math.sqrt(3.75))).toBeLessThanOrEqual(1e-14);

@@ -43,12 +43,15 @@
 import { naError, numError, valueError } from '../errors';
 import { show } from '../guards';
 import { ControlRule, RuleTerm, termText } from './rules';
+import { labelKey } from '../labels';
+import type { Label } from '../labels';
+
+export { labelKey };
+export type { Label };
 
 /** One entry of the values, target or sd column: a number, a text that is not a number, or blank (null). */
 export type Entry = number | string | null;
 
-/** One run or material label: number, text, logical, or blank (null/undefined). */
-export type Label = number | string | boolean | null | undefined;
 
 /** The control results to review, one entry per result, all arrays of the same length. */
 export interface ControlSeries {
@@ -101,18 +104,6 @@ function where(i: number): string {
 
 function showEntry(v: Entry): string {
   return typeof v === 'string' ? `text "${v}"` : show(v as number);
-}
-
-/**
- * A label's identity: text trimmed and lower-cased, a finite number as its shortest decimal
- * (so 1 and "1" meet), a logical as true/false; undefined for a blank.
- */
-export function labelKey(v: Label): string | undefined {
-  if (v === null || v === undefined) return undefined;
-  if (typeof v === 'number') return Number.isFinite(v) ? String(v) : undefined;
-  if (typeof v === 'boolean') return v ? 'true' : 'false';
-  const t = v.trim();
-  return t === '' ? undefined : t.toLowerCase();
 }
 
 function labelText(v: Label): string {

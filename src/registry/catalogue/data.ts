@@ -14,10 +14,11 @@ import { DEFAULT_COMPARE_METHOD, LineFit, biasAtLevel, compareMethods, readCompa
 import { biasUncertainty, combinedUncertainty } from '../../engine/mu';
 import { divError, naError, numError, valueError } from '../../engine/errors';
 import { nonNegative, positive } from '../../engine/guards';
-import { cellCount, cellsOf, isBlank, numbersOf, singleCell, toNumber } from '../coerce';
+import { cellCount, cellsOf, numbersOf, singleCell, toNumber } from '../coerce';
 import { aggregate, elementwise, figure, labelled, num, optNum, optNumNone, optWord, range } from '../define';
 import type { Figure } from '../define';
 import type { Grid, Scalar } from '../types';
+import { labelKey } from '../../engine/labels';
 
 /** The worksheet's confidence level for DATA.COMPARE intervals. */
 const COMPARE_CONFIDENCE = 0.95;
@@ -50,15 +51,6 @@ export function pairedNumbers(a: Grid | undefined, b: Grid | undefined, nameA: s
     }
   }
   return [xa, xb];
-}
-
-/** A run, day or material label as a key, or undefined for a blank cell: trimmed, any case; 1 and "1" are one label. */
-export function labelKey(v: Scalar): string | undefined {
-  if (isBlank(v)) return undefined;
-  if (typeof v === 'number') return Number.isFinite(v) ? String(v) : undefined;
-  if (typeof v === 'boolean') return v ? 'true' : 'false';
-  const t = v.trim();
-  return t === '' ? undefined : t.toLowerCase();
 }
 
 /** Results and their group labels, cell by cell; a pair with a non-number result or a blank label is skipped. */
@@ -134,13 +126,13 @@ export const DATA_PRECISION = labelled({
   doc: {
     summary: 'one-way ANOVA by run or day: repeatability, between-group and within-lab SD and CV',
     description:
-      'One-way ANOVA of replicates grouped by run or day, balanced or not. Repeatability SD = √MS_within; between-group variance = (MS_between − MS_within)/n₀, floored at 0, n₀ = (N − Σnᵢ²/N)/(k − 1); within-lab SD = √(repeatability² + between²). SDs in the unit of the results, CVs in % of the mean. At least 2 groups and 2 results (#NUM!).',
-    sources: ['ISO 5725-2', 'CLSI EP15-A3 (2014)'],
+      'One-way ANOVA of replicates grouped by run or day, balanced or not. Repeatability SD = √MS_within; between-group variance = (MS_between − MS_within)/n₀, floored at 0, n₀ = (N − Σnᵢ²/N)/(k − 1); within-lab SD = √(repeatability² + between²). SDs in the unit of the results, CVs in % of the mean. Within-lab df is Satterthwaite\'s: (MS_B/n₀ + (1 − 1/n₀)·MS_W)² / [(MS_B/n₀)²/(k − 1) + ((1 − 1/n₀)·MS_W)²/(N − k)] when the between-group variance is positive, else N − k. At least 2 groups and 2 results (#NUM!).',
+    sources: ['ISO 5725-2', 'CLSI EP15-A3 (2014)', 'Satterthwaite FE. Biometrics Bulletin 1946;2:110–4'],
     returns: 'Labelled precision estimates.',
     example: { args: [[[10.1], [10.3], [9.9], [10.6], [10.4], [10.8], [9.7], [9.9], [10.0]], [[1], [1], [1], [2], [2], [2], [3], [3], [3]]], show: ['Repeatability SD', 'Within-lab SD', 'Groups'] },
   },
   params: [range('values', 'The results.'), range('groups', 'The run or day label of each result (numbers or text), same size as values.')],
-  labels: ['Mean', 'Repeatability SD', 'Between-group SD', 'Within-lab SD', 'Repeatability CV %', 'Within-lab CV %', 'Groups', 'Results'],
+  labels: ['Mean', 'Repeatability SD', 'Between-group SD', 'Within-lab SD', 'Repeatability CV %', 'Within-lab CV %', 'Groups', 'Results', 'Within-lab df'],
   fn: (gv: Grid, gg: Grid) => {
     const { values, labels } = groupedNumbers(gv, gg);
     const p = oneWayPrecision(values, labels);
@@ -153,6 +145,7 @@ export const DATA_PRECISION = labelled({
       'Within-lab CV %': figure(() => cvPercent(p.withinLabSd, p.mean)),
       Groups: p.groups,
       Results: p.results,
+      'Within-lab df': p.withinLabDf,
     };
   },
 });

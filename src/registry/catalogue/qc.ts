@@ -5,9 +5,14 @@
 import { detectionProbability, falseRejectionProbability } from '../../engine/qc/power';
 import { DEFAULT_FALSE_REJECTION_LIMIT, DEFAULT_TARGET, planQc } from '../../engine/qc/plan';
 import { ControlRule, parseRule } from '../../engine/qc/rules';
-import { naError } from '../../engine/errors';
-import { labelled, elementwise, num, optNum, word } from '../define';
+import { controlFlags } from '../../engine/qc/flags';
+import type { ControlSeries, Entry, Label } from '../../engine/qc/flags';
+import { controlReview } from '../../engine/qc/review';
+import { naError, valueError } from '../../engine/errors';
+import { aggregate, labelled, elementwise, num, optNum, optRange, range, word } from '../define';
 import { ALLOWABLE, BIAS } from '../params';
+import { cellsOf } from '../coerce';
+import type { Grid, Output, Scalar } from '../types';
 
 /** A blank cell may arrive as "": it is a missing rule (#N/A), not a malformed one. */
 function readRule(text: string): ControlRule {
@@ -81,4 +86,93 @@ export const QC_PLAN = labelled({
   },
 });
 
-export const QC_FUNCTIONS = [QC_DETECT, QC_FALSEREJECT, QC_PLAN];
+/** A cell of the values, target or sd range as the review reads it: a number, text, or blank. */
+function entry(v: Scalar): Entry {
+  if (typeof v === 'number') return Number.isFinite(v) ? v : String(v);
+  if (v === null || v === undefined || v === '') return null;
+  if (typeof v === 'boolean') return v ? 'TRUE' : 'FALSE';
+  return v;
+}
+
+/** A range that goes with values, cell by cell: the same shape, or one cell for every result. */
+function alongside(g: Grid | undefined, values: Grid, name: string): Scalar[] | undefined {
+  if (g === undefined) return undefined;
+  const n = values.length * (values[0]?.length ?? 0);
+  if (g.length === 1 && g[0].length === 1) return new Array<Scalar>(n).fill(g[0][0]);
+  if (g.length !== values.length || g.some((row, r) => row.length !== values[r].length)) {
+    throw valueError(`${name} does not pair up with values: give a range of the same shape (${values.length}×${values[0]?.length ?? 0}) or one cell`);
+  }
+  return cellsOf(g);
+}
+
+/** The control series of QC.FLAGS and QC.REVIEW from their ranges (row by row). */
+function series(gv: Grid, gt: Grid, gs: Grid, rule: ControlRule, gr: Grid | undefined, gl: Grid | undefined): ControlSeries {
+  return {
+    values: cellsOf(gv).map(entry),
+    target: (alongside(gt, gv, 'target') as Scalar[]).map(entry),
+    sd: (alongside(gs, gv, 'sd') as Scalar[]).map(entry),
+    rule,
+    runs: alongside(gr, gv, 'runs') as Label[] | undefined,
+    levels: alongside(gl, gv, 'levels') as Label[] | undefined,
+  };
+}
+
+const REVIEW_SOURCE = 'Westgard JO, Barry PL, Hunt MR, Groth T. Clin Chem 1981;27:493–501';
+const VALUES = range('values', 'The control results in time order (a column or a row); text and blanks are skipped.');
+const TARGET = range('target', 'The target (mean) in use: one cell, or one per result (levels and lots differ).');
+const SD = range('sd', 'The SD in use, > 0: one cell, or one per result.');
+const RUN_LABELS = optRange('runs', 'Each result\'s run label (same shape as values): results with one label form one run; default: every result its own run.');
+const LEVEL_LABELS = optRange('levels', 'Each result\'s control material (same shape as values); default: one material.');
+
+export const QC_FLAGS = aggregate({
+  name: 'QC.FLAGS',
+  doc: {
+    summary: 'the control rules each control result completes (a same-shaped range of texts)',
+    description:
+      'For each control result, z = (value − target)/sd and the terms of the rule that fire at it, in the rule\'s order, joined by "/" (e.g. "2-2s/R-4s"), or "" when none. 1-Ls: |z| > L. R-Ls: the run\'s highest minus lowest z > L, reported on the run\'s last result. Count terms (k-Ls, k-x, 2of3-2s) read consecutive results ending at this one, in this material\'s results in run order and in all results in run order, firing if either does. Runs in the order their labels first appear; a label seen again joins its earlier run. Text and blanks are skipped and enter no sequence. Same rule syntax as QC.PLAN.',
+    sources: [REVIEW_SOURCE],
+    returns: 'The flags of each result, same shape as values.',
+    example: { args: [[[101], [104.5], [104.8], [99], [93.5]], 100, 2, '1-3s/2-2s/R-4s'] },
+  },
+  params: [VALUES, TARGET, SD, RULE, RUN_LABELS, LEVEL_LABELS],
+  fn: (gv: Grid, gt: Grid, gs: Grid, rule: ControlRule, gr: Grid | undefined, gl: Grid | undefined): Output => {
+    const flags = controlFlags(series(gv, gt, gs, rule, gr, gl));
+    const cols = gv[0]?.length ?? 0;
+    return gv.map((row, r) => row.map((_v, c) => flags[r * cols + c]));
+  },
+});
+
+export const QC_REVIEW = labelled({
+  name: 'QC.REVIEW',
+  doc: {
+    summary: 'a period of control results summarised: runs flagged against the expected false rejection, mean and SD of z',
+    description:
+      'Results and runs counted; runs flagged = runs with at least one flag (as QC.FLAGS gives them); their share; the expected false rejection per run = the mean over runs of QC.FALSEREJECT(rule, that run\'s number of results); mean z and SD of z (n − 1; above 1 means the method varies more than the SD in use); results beyond 2 SD. Runs and materials as QC.FLAGS reads them.',
+    sources: [REVIEW_SOURCE, 'Westgard JO, Groth T. Clin Chem 1979;25:863–9'],
+    returns: 'Labelled review figures.',
+    notes: [
+      'Counting rules that read across runs flag a stable method somewhat more often than the per-run expectation, because every result counts and a streak that goes on is flagged again; compare the two as a guide, not as a test.',
+    ],
+    example: {
+      args: [[[101], [104.5], [104.8], [99], [93.5], [100.2], [98.7], [101.1]], 100, 2, '1-3s/2-2s/R-4s'],
+      show: ['Runs flagged', 'Mean z', 'SD of z'],
+    },
+  },
+  params: [VALUES, TARGET, SD, RULE, RUN_LABELS, LEVEL_LABELS],
+  labels: ['Results', 'Runs', 'Runs flagged', 'Share of runs flagged', 'Expected false rejection per run', 'Mean z', 'SD of z', 'Results beyond 2 SD'],
+  fn: (gv: Grid, gt: Grid, gs: Grid, rule: ControlRule, gr: Grid | undefined, gl: Grid | undefined) => {
+    const r = controlReview(series(gv, gt, gs, rule, gr, gl));
+    return {
+      Results: r.results,
+      Runs: r.runs,
+      'Runs flagged': r.runsFlagged,
+      'Share of runs flagged': r.shareFlagged,
+      'Expected false rejection per run': r.expectedFalseRejection,
+      'Mean z': r.meanZ,
+      'SD of z': r.sdZ,
+      'Results beyond 2 SD': r.beyond2Sd,
+    };
+  },
+});
+
+export const QC_FUNCTIONS = [QC_DETECT, QC_FALSEREJECT, QC_PLAN, QC_FLAGS, QC_REVIEW];
