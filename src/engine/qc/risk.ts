@@ -22,11 +22,17 @@
  * ΔP_E ≥ 0 for every Δ ≥ 0 and A ≥ 0: dP_E/dΔ = φ((A − b)/s − Δ) − φ((A + b)/s + Δ) ≥ 0 because
  * |(A − b)/s − Δ| ≤ (A + b)/s + Δ. So a shift never makes results more reliable.
  *
- * A ≤ |b| (sigma ≤ 0): half or more of the results exceed ±A before any shift. MaxE(Nuf) counts
- * only the results a shift makes unreliable in addition, and it shrinks as the method gets worse
- * (with A = 0 it is 0: every result is already unreliable). Reporting it would read as "low
- * risk" for a method that fails; so QC.RISK (and the expected counts below) give #NUM! there and
- * QC.RUNSIZE gives 0: no run size makes the results reliable.
+ * A method that fails without a shift. MaxE(Nuf) counts only the results a shift makes
+ * unreliable in addition to those the stable method already produces. When the stable method
+ * itself fails its allowance, that count shrinks as the method gets worse (P_E(0) → 1 leaves
+ * nothing to add; with A = 0 it is 0), so it would read as "low risk" for a failing method, and
+ * QC.RUNSIZE would then rise as the allowance falls. So the risk functions require the method to
+ * meet its allowance without a shift in the sense QC.PLAN uses: the critical shift
+ * (A − b)/s − 1.65 must be > 0, i.e. fewer than 5 % of results exceed the allowance on the side
+ * of the bias. Otherwise QC.RISK (and the expected counts below) give #NUM! saying so, and
+ * QC.RUNSIZE gives 0: no run size makes the results reliable. (Above that threshold the risk
+ * falls and the run size rises with the allowance, checked in the tests; the count's turn
+ * happens near sigma 1 and below.)
  *
  * Method.
  * - ΔP_E without cancellation: ΔP_E(Δ) = ∫_0^Δ φ(a₂ − t)·(1 − e^{−2α(β + t)}) dt with α = A/s,
@@ -100,10 +106,18 @@ function ruleOf(rule: ControlRule | string): ControlRule {
   return typeof rule === 'string' ? parseRule(rule) : rule;
 }
 
-function requireMeetsAllowance(allowable: number, bias: number): void {
-  if (!(allowable > Math.abs(bias))) {
+/** z of the threshold: the same as QC.PLAN's critical shift (5 % beyond the allowance, one-sided). */
+export const STABLE_Z = 1.65;
+
+/** True when the method meets its allowance without a shift: (A − |b|)/s − 1.65 > 0. */
+function meetsAllowance(m: Method): boolean {
+  return m.a2 - STABLE_Z > 0;
+}
+
+function requireMeetsAllowance(m: Method): void {
+  if (!meetsAllowance(m)) {
     throw numError(
-      `allowable (${show(allowable)}) must be greater than |bias| (${show(Math.abs(bias))}): half or more of the results exceed the allowable error before any shift, and no QC frequency makes them reliable`,
+      `the method fails its allowable error without any shift: sigma (allowable − |bias|)/cv = ${show(m.a2)} must be greater than ${STABLE_Z} (more than 5 % of results already exceed the allowance, and no QC frequency changes that)`,
     );
   }
 }
@@ -199,8 +213,8 @@ function neverRejects(rule: ControlRule, n: number, shift: number): never {
 /**
  * E(Nuf)(Δ), the expected number of unreliable final patient results after a shift of `shift`
  * SD, with runs of `runsize` patient results between QC events of n controls each (Model above).
- * allowable > |bias| (else #NUM!), cv > 0 (%; 0 → #DIV/0!), n whole 1…100, runsize whole ≥ 1,
- * shift finite ≥ 0.
+ * allowable ≥ 0 with (allowable − |bias|)/cv > 1.65 (else #NUM!, see above), cv > 0 (%; 0 →
+ * #DIV/0!), n whole 1…100, runsize whole ≥ 1, shift finite ≥ 0.
  */
 export function expectedUnreliable(
   allowable: number,
@@ -216,7 +230,7 @@ export function expectedUnreliable(
   checkControls(n);
   wholeNumber(runsize, 'runsize', 1);
   nonNegative(shift, 'shift');
-  requireMeetsAllowance(allowable, bias);
+  requireMeetsAllowance(m);
   const e = perResult(m, r, n, shift);
   if (!Number.isFinite(e)) neverRejects(r, n, shift);
   return runsize * e;
@@ -342,8 +356,8 @@ function peakOf(m: Method, rule: ControlRule, n: number): Peak {
 
 /**
  * MaxE(Nuf) and the shift where it occurs, for runs of `runsize` patient results between QC
- * events of n controls with `rule`. allowable > |bias| (else #NUM!), cv > 0 (0 → #DIV/0!),
- * n whole 1…100, runsize whole ≥ 1. maxRisk = runsize·max_Δ(ΔP_E·W): linear in runsize.
+ * events of n controls with `rule`. Inputs as expectedUnreliable (sigma > 1.65, else #NUM!).
+ * maxRisk = runsize·max_Δ(ΔP_E·W): linear in runsize.
  */
 export function maximumRisk(
   allowable: number,
@@ -357,7 +371,7 @@ export function maximumRisk(
   const r = ruleOf(rule);
   checkControls(n);
   wholeNumber(runsize, 'runsize', 1);
-  requireMeetsAllowance(allowable, bias);
+  requireMeetsAllowance(m);
   const peak = peakOf(m, r, n);
   if (!Number.isFinite(peak.value)) neverRejects(r, n, peak.shift);
   return { maxRisk: runsize * peak.value, argmax: peak.shift };
@@ -390,7 +404,8 @@ export function riskCurve(
 /**
  * QC.RUNSIZE: the largest whole number M of patient results between QC events with
  * QC.RISK(…, M) ≤ maxrisk (default 1, CLSI C24), at most 1,000,000; 0 when even M = 1 exceeds
- * maxrisk, and 0 when allowable ≤ |bias| (the method fails without a shift). maxrisk > 0.
+ * maxrisk, and 0 when the method fails its allowance without a shift (sigma ≤ 1.65, see
+ * above). maxrisk > 0.
  * Rounding: M starts from ⌊maxrisk/e⌋ (e = max ΔP_E·W) and is then moved so that M·e ≤ maxrisk
  * < (M + 1)·e hold in the very arithmetic QC.RISK uses (QC.RISK(…, M) = M·e): a quotient that
  * rounds to just below a whole number cannot lose one, nor one just above gain one.
@@ -407,7 +422,7 @@ export function qcRunSize(
   const r = ruleOf(rule);
   checkControls(n);
   positive(maxrisk, 'maxrisk');
-  if (!(allowable > Math.abs(bias))) return 0;
+  if (!meetsAllowance(m)) return 0;
   const e = peakOf(m, r, n).value;
   if (!(e > 0)) return MAX_RUN_SIZE;
   if (!Number.isFinite(e)) return 0;
