@@ -614,11 +614,32 @@ export interface SurvivalSequence {
 /** A rest below this share of the sum is left to the geometric estimate. */
 const NEGLIGIBLE = 1e-15;
 
+/**
+ * P(a < Z < b) for 1 ≤ a < b, by 10-point Gauss–Legendre on pieces at most 0.125 SD wide: full
+ * relative precision far in the tail, where a difference of two tail values of Φ keeps only its
+ * absolute accuracy (about 1e-15).
+ */
+function tailMass(a: number, b: number): number {
+  // Beyond a + 40 the density is below φ(a)·e^(−40a): nothing in double precision.
+  const hi = Math.min(b, a + 40);
+  const pieces = Math.ceil((hi - a) / 0.125);
+  const h = (hi - a) / pieces;
+  const gl = glNodes(10);
+  let total = 0;
+  for (let p = 0; p < pieces; p++) {
+    const mid = a + (p + 0.5) * h;
+    let part = 0;
+    for (let i = 0; i < 10; i++) part += gl.w[i] * density(mid + 0.5 * h * gl.x[i]);
+    total += 0.5 * h * part;
+  }
+  return total;
+}
+
 /** ln P(−L < Z + Δ < L) for one observation, kept accurate whether it is near 0 or near 1. */
 function logInside(limit: number, shift: number): number {
   const out = normalCdf(-limit - shift) + normalCdf(shift - limit);
   if (out < 0.5) return Math.log1p(-out);
-  const inside = intervalProbability(-limit - shift, limit - shift);
+  const inside = shift - limit > 1 ? tailMass(shift - limit, shift + limit) : intervalProbability(-limit - shift, limit - shift);
   return inside > 0 ? Math.log(inside) : -Infinity;
 }
 
