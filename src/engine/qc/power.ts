@@ -26,6 +26,10 @@
  * - Many runs: after each run the surviving state distribution is normalised; once it stops
  *   changing (to 1e-14) the survival of each further run is the same factor λ, and the rest is
  *   λ^(runs left). Exact to rounding.
+ * - The survival sequence after a shift (survivalSequence, for risk-based QC frequency): the
+ *   same chain, one run per QC event, each event's survival kept; with a range term and small n
+ *   the run step is tabulated by class sequences (see RunTable), which sums the same integral in
+ *   another order (agreement with the run-by-run integral about 1e-15 per event).
  * Results are cached by (rule, n, runs, shift) with the shift exact: a hit is the same number.
  */
 import { numError } from '../errors';

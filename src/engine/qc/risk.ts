@@ -28,8 +28,8 @@
  * nothing to add; with A = 0 it is 0), so it would read as "low risk" for a failing method, and
  * QC.RUNSIZE would then rise as the allowance falls. So the risk functions require the method to
  * meet its allowance without a shift in the sense QC.PLAN uses: the critical shift
- * (A − b)/s − 1.65 must be > 0, i.e. fewer than 5 % of results exceed the allowance on the side
- * of the bias. Otherwise QC.RISK (and the expected counts below) give #NUM! saying so, and
+ * (A − b)/s − 1.65 must be > 0, i.e. fewer than about 5 % of results exceed the allowance on
+ * the side of the bias. Otherwise QC.RISK (and the expected counts below) give #NUM! saying so, and
  * QC.RUNSIZE gives 0: no run size makes the results reliable. (Above that threshold the risk
  * falls and the run size rises with the allowance, checked in the tests; the count's turn
  * happens near sigma 1 and below.)
@@ -38,12 +38,16 @@
  * - ΔP_E without cancellation: ΔP_E(Δ) = ∫_0^Δ φ(a₂ − t)·(1 − e^{−2α(β + t)}) dt with α = A/s,
  *   β = b/s, a₂ = (A − b)/s (from φ(a₁ + t) = φ(a₂ − t)·e^{−2α(β + t)}, a₁ = (A + b)/s), the
  *   bracket computed by expm1. The integrand is positive and smooth; 10-point Gauss–Legendre on
- *   pieces at most 0.125 SD wide gives full double precision relative to the value (checked in
- *   the tests against 60-digit decimal arithmetic), also for Δ near 0 where ΔP_E is tiny.
+ *   pieces at most 0.125 SD wide keeps a relative error near 1e-14 (worst 1e-14 against 110-digit
+ *   decimal arithmetic in the tests), also for Δ near 0 where ΔP_E is tiny.
  * - W(Δ) from one pass of the exact chain (survivalSequence in power.ts), with the geometric tail
  *   S_K·λ/(1 − λ) once the normalised state distribution has settled (exact), or the pass stopped
  *   when the rest is below 1e-15 of the sum (bounded from every state by the rule's 1-Ls term).
- *   Single-limit rules in closed form: W = r/2 + r²/(1 − r), r = P(|Z + Δ| ≤ L)^n.
+ *   Single-limit rules in closed form: W = r/2 + r²/(1 − r), r = P(|Z + Δ| ≤ L)^n (relative
+ *   error 7e-14 at worst in the tests, shifts up to 10 SD). For multirules far beyond the limits
+ *   (per-event pass probability below about 1e-6) the chain's class probabilities keep only the
+ *   absolute accuracy of Φ (about 1e-15), so W loses relative digits there; E(Nuf) is then a
+ *   negligible fraction of its maximum.
  * - The maximum: E on a grid Δ = 0, 0.25, …, 10; each of the three largest local maxima of the
  *   grid is refined by Brent's method (parabolic steps and golden sections, Brent RP. Algorithms
  *   for minimization without derivatives, 1973, ch. 5) on the two grid cells around it, to
@@ -117,7 +121,7 @@ function meetsAllowance(m: Method): boolean {
 function requireMeetsAllowance(m: Method): void {
   if (!meetsAllowance(m)) {
     throw numError(
-      `the method fails its allowable error without any shift: sigma (allowable − |bias|)/cv = ${show(m.a2)} must be greater than ${STABLE_Z} (more than 5 % of results already exceed the allowance, and no QC frequency changes that)`,
+      `the method fails its allowable error without any shift: sigma (allowable − |bias|)/cv = ${show(m.a2)} must be greater than ${STABLE_Z} (about 5 % or more of the results already exceed the allowance, and no QC frequency changes that)`,
     );
   }
 }

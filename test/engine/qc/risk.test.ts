@@ -65,7 +65,7 @@ function increaseHigh(A: number, b: number, s: number, shift: number): Decimal {
 /**
  * The closed form for a single-limit rule 1-Ls with n controls (the sum over events is geometric):
  * E = ΔP_E·M·((1 − P)/2 + (1 − P)²/P), P = 1 − [Φ(L − Δ) − Φ(−L − Δ)]^n the per-event
- * rejection probability (Parvin's model as the product's formula states it; geometric series).
+ * rejection probability (Parvin's model; the sum over events is a geometric series).
  */
 function closedFormHigh(A: number, b: number, s: number, L: number, n: number, M: number, shift: number): number {
   const d = new D(shift);
