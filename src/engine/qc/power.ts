@@ -447,14 +447,29 @@ function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tab
     const nodes = rangeNodes(m, d, m.rangeLimit as number, q);
     const table = tabled ? runTableOf(m, n) : undefined;
     if (table) {
+      // The matrix is sparse (a run leads from a state to few others): kept by rows.
       const T = tableMatrix(m, n, table, nodes);
+      const rowStart = new Int32Array(S + 1);
+      const cols: number[] = [];
+      const vals: number[] = [];
+      for (let s = 0; s < S; s++) {
+        for (let t = 0; t < S; t++) {
+          const x = T[s * S + t];
+          if (x !== 0) {
+            cols.push(t);
+            vals.push(x);
+          }
+        }
+        rowStart[s + 1] = cols.length;
+      }
+      const col = Int32Array.from(cols);
+      const val = Float64Array.from(vals);
       return (v) => {
         const w = new Float64Array(S);
         for (let s = 0; s < S; s++) {
           const vs = v[s];
           if (vs === 0) continue;
-          const row = s * S;
-          for (let t = 0; t < S; t++) w[t] += vs * T[row + t];
+          for (let e = rowStart[s]; e < rowStart[s + 1]; e++) w[col[e]] += vs * val[e];
         }
         return w;
       };
@@ -610,13 +625,15 @@ export interface SurvivalSequence {
   /**
    * true: the tail is exact (closed form, or the normalised state distribution had stopped
    * changing). false: the list ended because the rest had become negligible (below 1e-15 of the
-   * sum so far, by a bound that holds from every state), and the tail is the geometric estimate.
+   * sum so far by a bound that holds from every state, or starting below 1e-250), and the tail
+   * is the geometric estimate.
    */
   readonly exact: boolean;
 }
 
 /** A rest below this share of the sum is left to the geometric estimate. */
 const NEGLIGIBLE = 1e-15;
+const TINY = 1e-250;
 
 /**
  * P(a < Z < b) for 1 ≤ a < b, by 10-point Gauss–Legendre on pieces at most 0.125 SD wide: full
@@ -662,7 +679,8 @@ function geometric(survival: number[], factor: number, rejection: number, exact:
  * the pass stops when the normalised distribution stops changing (to 1e-14; λ is then the last
  * pass probability) or when a bound shows the rest negligible: `bound` is a probability of
  * passing one run that holds from every state (P(|Z + Δ| ≤ L)^n for a 1-Ls term of the rule),
- * so Σ_{k>K} S_k ≤ S_K·bound/(1 − bound). undefined when neither happens within 10000 events.
+ * so Σ_{k>K} S_k ≤ S_K·bound/(1 − bound); without a bound, when S_K falls below 1e-250 and
+ * 1e-15 of the sum. undefined when none of these happens within 10000 events.
  * Exported for tests.
  */
 export function chainSequence(
@@ -693,6 +711,9 @@ export function chainSequence(
     for (let s = 0; s < S; s++) u[s] = w[s] / wMass;
     if (prev && settled(u, prev, wMass, prevMass)) return geometric(survival, wMass, 1 - wMass, true);
     if (bound < 1 && (mass * bound) / (1 - bound) <= NEGLIGIBLE * total) return geometric(survival, wMass, 1 - wMass, false);
+    // Without such a bound (no 1-Ls term): a rest that starts below 1e-250 is nothing in any
+    // count of results (it is at most 1e-250/(1 − λ) for the λ the chain settles at).
+    if (mass < TINY && mass < NEGLIGIBLE * total) return geometric(survival, wMass, 1 - wMass, false);
     prev = u;
     prevMass = wMass;
     v = u;
