@@ -106,6 +106,12 @@ function methodOf(allowable: number, bias: number, cv: number): Method {
   return { alpha: allowable / cv, beta: b / cv, a2: (allowable - b) / cv, key: `${allowable}|${b}|${cv}` };
 }
 
+/** runsize: whole, 1 … 1,000,000 (the largest run size QC.RUNSIZE reports). */
+function checkRunSize(runsize: number): void {
+  wholeNumber(runsize, 'runsize', 1);
+  if (runsize > MAX_RUN_SIZE) throw numError(`runsize must be at most ${MAX_RUN_SIZE} (got ${show(runsize)})`);
+}
+
 function ruleOf(rule: ControlRule | string): ControlRule {
   return typeof rule === 'string' ? parseRule(rule) : rule;
 }
@@ -218,7 +224,7 @@ function neverRejects(rule: ControlRule, n: number, shift: number): never {
  * E(Nuf)(Δ), the expected number of unreliable final patient results after a shift of `shift`
  * SD, with runs of `runsize` patient results between QC events of n controls each (Model above).
  * allowable ≥ 0 with (allowable − |bias|)/cv > 1.65 (else #NUM!, see above), cv > 0 (%; 0 →
- * #DIV/0!), n whole 1…100, runsize whole ≥ 1, shift finite ≥ 0.
+ * #DIV/0!), n whole 1…100, runsize whole 1…1,000,000, shift finite ≥ 0.
  */
 export function expectedUnreliable(
   allowable: number,
@@ -232,12 +238,12 @@ export function expectedUnreliable(
   const m = methodOf(allowable, bias, cv);
   const r = ruleOf(rule);
   checkControls(n);
-  wholeNumber(runsize, 'runsize', 1);
+  checkRunSize(runsize);
   nonNegative(shift, 'shift');
   requireMeetsAllowance(m);
-  const e = perResult(m, r, n, shift);
+  const e = runsize * perResult(m, r, n, shift);
   if (!Number.isFinite(e)) neverRejects(r, n, shift);
-  return runsize * e;
+  return e;
 }
 
 interface Peak {
@@ -374,11 +380,12 @@ export function maximumRisk(
   const m = methodOf(allowable, bias, cv);
   const r = ruleOf(rule);
   checkControls(n);
-  wholeNumber(runsize, 'runsize', 1);
+  checkRunSize(runsize);
   requireMeetsAllowance(m);
   const peak = peakOf(m, r, n);
-  if (!Number.isFinite(peak.value)) neverRejects(r, n, peak.shift);
-  return { maxRisk: runsize * peak.value, argmax: peak.shift };
+  const maxRisk = runsize * peak.value;
+  if (!Number.isFinite(maxRisk)) neverRejects(r, n, peak.shift);
+  return { maxRisk, argmax: peak.shift };
 }
 
 /** QC.RISK: MaxE(Nuf), the largest expected number of unreliable final patient results. */

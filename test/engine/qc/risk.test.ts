@@ -637,6 +637,7 @@ describe('bad input', () => {
     ['runsize 2.5', () => qcRisk(8, 0, 1, '1-3s', 2, 2.5), /^#NUM! runsize must be a whole number \(got 2.5\)/],
     ['runsize −3', () => qcRisk(8, 0, 1, '1-3s', 2, -3), /^#NUM! runsize must be a whole number|^#NUM! runsize must be at least 1/],
     ['runsize NaN', () => expectedUnreliable(8, 0, 1, '1-3s', 2, NaN, 1), /^#NUM! runsize must be a whole number/],
+    ['runsize 1e7', () => qcRisk(8, 0, 1, '1-3s', 2, 1e7), /^#NUM! runsize must be at most 1000000 \(got 10000000\)/],
     ['maxrisk 0', () => qcRunSize(8, 0, 1, '1-3s', 2, 0), /^#NUM! maxrisk must be a finite number > 0 \(got 0\)/],
     ['maxrisk −1', () => qcRunSize(8, 0, 1, '1-3s', 2, -1), /^#NUM! maxrisk must be a finite number > 0/],
     ['maxrisk Infinity', () => qcRunSize(8, 0, 1, '1-3s', 2, Infinity), /^#NUM! maxrisk/],
