@@ -171,8 +171,8 @@ export function errorProbability(allowable: number, bias: number, cv: number, sh
 
 /**
  * ΔP_E(Δ) = P_E(Δ) − P_E(0), the share of results a shift of `shift` SD adds beyond ±allowable;
- * ≥ 0. Computed as an integral without cancellation (Method above); relative accuracy near
- * 1e-15 also where it is tiny (Δ near 0).
+ * ≥ 0. Computed as an integral without cancellation (Method above); relative accuracy about
+ * 1e-14 also where it is tiny (Δ near 0).
  */
 export function errorIncrease(allowable: number, bias: number, cv: number, shift: number): number {
   const m = methodOf(allowable, bias, cv);
@@ -216,7 +216,7 @@ function perResult(m: Method, rule: ControlRule, n: number, shift: number): numb
 
 function neverRejects(rule: ControlRule, n: number, shift: number): never {
   throw numError(
-    `rule "${rule.text}" with n = ${n} almost never rejects after a shift of ${show(shift)} SD: the expected number of unreliable results has no finite maximum`,
+    `rule "${rule.text}" with n = ${n} almost never rejects after a shift of ${show(shift)} SD: the expected number of unreliable results is too large to compute`,
   );
 }
 
