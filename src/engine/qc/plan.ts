@@ -11,10 +11,15 @@
  * detection is returned (the earlier on a tie) with targetMet false. When ΔSE_crit ≤ 0
  * (sigma ≤ 1.65) the method fails its allowance with no shift at all: detection is shown at
  * shift 0 and no candidate meets the target.
+ * Run size: QC.RUNSIZE of the chosen rule and n with maxrisk 1 (risk.ts; Parvin CA. Clin Chem
+ * 2008;54:2049–54; CLSI C24-Ed4), the largest number of patient results between QC events that
+ * keeps the expected number of unreliable final results from a shift at most 1. It does not take
+ * part in the choice; it is 0 when the method fails its allowance without a shift.
  */
 import { criticalShift } from '../perf';
 import { openProbability } from '../guards';
 import { detectionProbability, falseRejectionProbability } from './power';
+import { DEFAULT_MAX_RISK, qcRunSize } from './risk';
 import { parseRule } from './rules';
 
 export interface QcCandidate {
@@ -48,6 +53,8 @@ export interface QcPlan {
   readonly targetMet: boolean;
   /** The critical shift the detection refers to, SD (may be negative). */
   readonly criticalShift: number;
+  /** QC.RUNSIZE of the chosen rule and n (maxrisk 1): patient results between QC events. */
+  readonly runSize: number;
 }
 
 /** 1 − (1 − p)^(1/runs): the false rejection of one run that gives p over `runs` runs. */
@@ -89,6 +96,7 @@ export function planQc(
     falseRejectionPerRun: row.fr,
     targetMet,
     criticalShift: shift,
+    runSize: qcRunSize(allowable, bias, cv, row.rule, row.n, DEFAULT_MAX_RISK),
   });
   if (shift > 0) {
     // In selection order, the first candidate meeting both criteria is the plan; the false
@@ -100,4 +108,19 @@ export function planQc(
   let best = rows[0];
   for (const row of rows) if (detect(row) > detect(best)) best = row;
   return result(best, false);
+}
+
+/**
+ * QC.RUNSIZE of each candidate (rule, n; the candidate's `runs` does not enter: a QC event is one
+ * run of n controls), in the order given: for the task pane's table of candidates. Inputs as
+ * QC.RUNSIZE; maxrisk default 1.
+ */
+export function candidateRunSizes(
+  allowable: number,
+  bias: number,
+  cv: number,
+  candidates: readonly QcCandidate[] = QC_CANDIDATES,
+  maxrisk = DEFAULT_MAX_RISK,
+): number[] {
+  return candidates.map((c) => qcRunSize(allowable, bias, cv, c.rule, c.n, maxrisk));
 }

@@ -26,6 +26,10 @@
  * - Many runs: after each run the surviving state distribution is normalised; once it stops
  *   changing (to 1e-14) the survival of each further run is the same factor λ, and the rest is
  *   λ^(runs left). Exact to rounding.
+ * - The survival sequence after a shift (survivalSequence, for risk-based QC frequency): the
+ *   same chain, one run per QC event, each event's survival kept; with a range term and small n
+ *   the run step is tabulated by class sequences (see RunTable), which sums the same integral in
+ *   another order (agreement with the run-by-run integral about 1e-15 per event).
  * Results are cached by (rule, n, runs, shift) with the shift exact: a hit is the same number.
  */
 import { numError } from '../errors';
@@ -119,6 +123,18 @@ interface RangeNodes {
   readonly prob: Float64Array;
 }
 
+/** Classes in which an observation fires some term from every state (e.g. beyond ±L of a 1-Ls term). */
+function deadClasses(m: RuleMachine): boolean[] {
+  const K = m.classes;
+  const dead: boolean[] = [];
+  for (let k = 0; k < K; k++) {
+    let all = true;
+    for (let s = 0; s < m.states && all; s++) if (m.next[s * K + k] >= 0) all = false;
+    dead.push(all);
+  }
+  return dead;
+}
+
 function rangeNodes(m: RuleMachine, shift: number, range: number, q: Quadrature): RangeNodes {
   const lo = shift - q.below;
   const hi = shift + q.above;
@@ -128,9 +144,20 @@ function rangeNodes(m: RuleMachine, shift: number, range: number, q: Quadrature)
   }
   const edges = [...cuts].sort((a, b) => a - b);
   const gl = glNodes(q.points);
+  const K = m.classes;
+  const dead = deadClasses(m);
+  const classOf = (x: number): number => {
+    let k = 0;
+    while (k < K - 1 && m.bounds[k] < x) k++;
+    return k;
+  };
   const as: number[] = [];
   const ws: number[] = [];
   for (let e = 0; e + 1 < edges.length; e++) {
+    // A piece lies inside one class (every boundary is a cut). When an observation in that class
+    // fires a term from every state, a run whose lowest observation is there never passes: the
+    // piece adds exactly 0 and is left out.
+    if (dead[classOf(0.5 * (edges[e] + edges[e + 1]))]) continue;
     const width = edges[e + 1] - edges[e];
     const parts = Math.max(1, Math.ceil(width / q.maxWidth));
     const h = width / parts;
@@ -143,7 +170,6 @@ function rangeNodes(m: RuleMachine, shift: number, range: number, q: Quadrature)
     }
   }
   const count = as.length;
-  const K = m.classes;
   const lowest = new Float64Array(count);
   const lowestClass = new Int32Array(count);
   const start = new Int32Array(count + 1);
@@ -159,7 +185,7 @@ function rangeNodes(m: RuleMachine, shift: number, range: number, q: Quadrature)
     for (let c = 0; c < K; c++) {
       const clo = c === 0 ? -Infinity : m.bounds[c - 1];
       const chi = c === K - 1 ? Infinity : m.bounds[c];
-      const p = intervalProbability(Math.max(clo, a) - shift, Math.min(chi, a + range) - shift);
+      const p = dead[c] ? 0 : intervalProbability(Math.max(clo, a) - shift, Math.min(chi, a + range) - shift);
       if (p > 0) {
         cls.push(c);
         prob.push(p);
@@ -232,6 +258,167 @@ function rangeRun(m: RuleMachine, n: number, v: Float64Array, nodes: RangeNodes,
   return acc;
 }
 
+/**
+ * One run with a range term, tabulated by class sequences (for small n). The run's n
+ * observations fall in a sequence c of classes; the machine takes state s to δ(s, c) (or fires),
+ * and the probability of c together with "range ≤ R" depends only on the multiset of classes in
+ * c (the observations are independent and identically distributed):
+ *   P_c = ∫ m_j·f_j(a)·w_j(a)^(m_j − 1)·Π_{k≠j} w_k(a)^(m_k) da,
+ * a the lowest observation, j its class, m_k how often class k occurs in c, f_j the density in
+ * class j and w_k(a) = P(X in class k and in [a, a + R]). So the run's transition matrix is
+ * T[s][t] = Σ_c P_c·[δ(s, c) = t] = Σ_M P_M·N(s, t, M) with N the number of orderings of the
+ * multiset M that take s to t: N is built once per rule and n, P_M per shift with the nodes of
+ * the range integral (the same integral as rangeRun, summed in another order). Only classes in
+ * which an observation can pass are enumerated.
+ */
+interface RunTable {
+  /** The classes enumerated (an observation in any other class fires from every state). */
+  readonly alive: Int32Array;
+  /** Multiplicities of multiset M over the alive classes: mult[M·A + k]. */
+  readonly mult: Int32Array;
+  readonly multisets: number;
+  /** Entries (from s, to t, multiset M, N orderings). */
+  readonly from: Int32Array;
+  readonly to: Int32Array;
+  readonly multiset: Int32Array;
+  readonly ways: Float64Array;
+}
+
+/** The most class sequences × states a run table may enumerate. */
+const MAX_TABLE_WORK = 2_000_000;
+
+function buildRunTable(m: RuleMachine, n: number): RunTable | undefined {
+  const K = m.classes;
+  const S = m.states;
+  const dead = deadClasses(m);
+  const alive: number[] = [];
+  for (let k = 0; k < K; k++) if (!dead[k]) alive.push(k);
+  const A = alive.length;
+  if (A === 0 || Math.pow(A, n) * S > MAX_TABLE_WORK) return undefined;
+  // A multiset is coded by its multiplicities written in base n + 1; codes are numbered as met.
+  const radix = n + 1;
+  const place: number[] = [];
+  for (let k = 0, f = 1; k < A; k++, f *= radix) place.push(f);
+  const dense = Math.pow(radix, A) <= 1 << 20 ? new Int32Array(Math.pow(radix, A)).fill(-1) : undefined;
+  const sparse = new Map<number, number>();
+  const mult: number[] = [];
+  const counts = new Int32Array(A);
+  let multisets = 0;
+  const indexOf = (code: number): number => {
+    let j = dense ? dense[code] : (sparse.get(code) ?? -1);
+    if (j < 0) {
+      j = multisets++;
+      if (dense) dense[code] = j;
+      else sparse.set(code, j);
+      for (let k = 0; k < A; k++) mult.push(counts[k]);
+    }
+    return j;
+  };
+  // Orderings from one state, gathered by (to, multiset); there are C(A + n − 1, n) multisets.
+  let width = 1;
+  for (let i = 1; i <= n; i++) width = (width * (A - 1 + i)) / i;
+  width = Math.round(width);
+  const row = new Float64Array(S * width);
+  const touched: number[] = [];
+  const from: number[] = [];
+  const to: number[] = [];
+  const multiset: number[] = [];
+  const ways: number[] = [];
+  const visit = (state: number, depth: number, code: number): void => {
+    if (depth === n) {
+      const at = state * width + indexOf(code);
+      if (row[at] === 0) touched.push(at);
+      row[at]++;
+      return;
+    }
+    for (let k = 0; k < A; k++) {
+      const t = m.next[state * K + alive[k]];
+      if (t < 0) continue;
+      counts[k]++;
+      visit(t, depth + 1, code + place[k]);
+      counts[k]--;
+    }
+  };
+  for (let s = 0; s < S; s++) {
+    visit(s, 0, 0);
+    for (const at of touched) {
+      const j = at % width;
+      const t = (at - j) / width;
+      from.push(s);
+      to.push(t);
+      multiset.push(j);
+      ways.push(row[at]);
+      row[at] = 0;
+    }
+    touched.length = 0;
+  }
+  return {
+    alive: Int32Array.from(alive),
+    mult: Int32Array.from(mult),
+    multisets,
+    from: Int32Array.from(from),
+    to: Int32Array.from(to),
+    multiset: Int32Array.from(multiset),
+    ways: Float64Array.from(ways),
+  };
+}
+
+const RUN_TABLES = new WeakMap<RuleMachine, Map<number, RunTable | null>>();
+
+function runTableOf(m: RuleMachine, n: number): RunTable | undefined {
+  let byN = RUN_TABLES.get(m);
+  if (!byN) {
+    byN = new Map();
+    RUN_TABLES.set(m, byN);
+  }
+  let t = byN.get(n);
+  if (t === undefined) {
+    t = buildRunTable(m, n) ?? null;
+    byN.set(n, t);
+  }
+  return t ?? undefined;
+}
+
+/** The run's transition matrix T (states × states, row = from) at one shift, from a run table. */
+function tableMatrix(m: RuleMachine, n: number, table: RunTable, nodes: RangeNodes): Float64Array {
+  const S = m.states;
+  const A = table.alive.length;
+  const K = m.classes;
+  const slot = new Int32Array(K).fill(-1);
+  for (let k = 0; k < A; k++) slot[table.alive[k]] = k;
+  const M = table.multisets;
+  const prob = new Float64Array(M);
+  const powers = new Float64Array(A * (n + 1));
+  for (let j = 0; j < nodes.count; j++) {
+    const low = slot[nodes.lowestClass[j]];
+    if (low < 0) continue;
+    for (let k = 0; k < A; k++) {
+      powers[k * (n + 1)] = 1;
+      for (let e = 1; e <= n; e++) powers[k * (n + 1) + e] = 0;
+    }
+    for (let c = nodes.start[j]; c < nodes.start[j + 1]; c++) {
+      const k = slot[nodes.cls[c]];
+      if (k < 0) continue;
+      const w = nodes.prob[c];
+      for (let e = 1; e <= n; e++) powers[k * (n + 1) + e] = powers[k * (n + 1) + e - 1] * w;
+    }
+    const f = nodes.lowest[j];
+    for (let i = 0; i < M; i++) {
+      const base = i * A;
+      const ml = table.mult[base + low];
+      if (ml === 0) continue;
+      let x = ml * f * powers[low * (n + 1) + ml - 1];
+      for (let k = 0; k < A && x !== 0; k++) if (k !== low) x *= powers[k * (n + 1) + table.mult[base + k]];
+      prob[i] += x;
+    }
+  }
+  const T = new Float64Array(S * S);
+  for (let e = 0; e < table.ways.length; e++) {
+    T[table.from[e] * S + table.to[e]] += table.ways[e] * prob[table.multiset[e]];
+  }
+  return T;
+}
+
 function sum(v: Float64Array): number {
   let t = 0;
   for (let i = 0; i < v.length; i++) t += v[i];
@@ -239,11 +426,10 @@ function sum(v: Float64Array): number {
 }
 
 /**
- * P(no term fires in `runs` runs of n observations at shift Δ), by the machine. Exported for
- * tests (it must reproduce the closed form on single-limit rules); callers use
- * detectionProbability.
+ * The chain's step over one run (QC event) at shift Δ: from the state distribution before the
+ * run to the unnormalised distribution of the states that pass it (its sum is P(pass)).
  */
-export function chainSurvival(m: RuleMachine, n: number, shift: number, runs: number, q: Quadrature = DEFAULT_QUADRATURE): number {
+function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tabled = false): (v: Float64Array) => Float64Array {
   const top = m.bounds.length ? m.bounds[m.bounds.length - 1] : 0;
   // Beyond the top boundary + 40 SD every observation is in the top class with probability 1 in
   // double precision, and the range of a run does not depend on the shift: the answer is the same.
@@ -257,25 +443,75 @@ export function chainSurvival(m: RuleMachine, n: number, shift: number, runs: nu
     p[k] = intervalProbability(lo - d, hi - d);
   }
   const useRange = m.rangeLimit !== undefined && n >= 2;
-  const nodes = useRange ? rangeNodes(m, d, m.rangeLimit as number, q) : undefined;
-  const work = [0, 1, 2, 3].map(() => new Float64Array(S));
+  if (useRange) {
+    const nodes = rangeNodes(m, d, m.rangeLimit as number, q);
+    const table = tabled ? runTableOf(m, n) : undefined;
+    if (table) {
+      // The matrix is sparse (a run leads from a state to few others): kept by rows.
+      const T = tableMatrix(m, n, table, nodes);
+      const rowStart = new Int32Array(S + 1);
+      const cols: number[] = [];
+      const vals: number[] = [];
+      for (let s = 0; s < S; s++) {
+        for (let t = 0; t < S; t++) {
+          const x = T[s * S + t];
+          if (x !== 0) {
+            cols.push(t);
+            vals.push(x);
+          }
+        }
+        rowStart[s + 1] = cols.length;
+      }
+      const col = Int32Array.from(cols);
+      const val = Float64Array.from(vals);
+      return (v) => {
+        const w = new Float64Array(S);
+        for (let s = 0; s < S; s++) {
+          const vs = v[s];
+          if (vs === 0) continue;
+          for (let e = rowStart[s]; e < rowStart[s + 1]; e++) w[col[e]] += vs * val[e];
+        }
+        return w;
+      };
+    }
+    const work = [0, 1, 2, 3].map(() => new Float64Array(S));
+    return (v) => rangeRun(m, n, v, nodes, work);
+  }
+  return (v) => {
+    let w = v;
+    for (let i = 0; i < n; i++) {
+      const out = new Float64Array(S);
+      observe(m, w, p, out);
+      w = out;
+    }
+    return w;
+  };
+}
+
+/** The normalised state distribution has stopped changing when no entry moves by more than this. */
+const SETTLED = 1e-14;
+
+function settled(u: Float64Array, prev: Float64Array, uMass: number, prevMass: number): boolean {
+  let diff = 0;
+  for (let s = 0; s < u.length; s++) diff = Math.max(diff, Math.abs(u[s] - prev[s]));
+  return diff < SETTLED && Math.abs(uMass - prevMass) < SETTLED;
+}
+
+/**
+ * P(no term fires in `runs` runs of n observations at shift Δ), by the machine. Exported for
+ * tests (it must reproduce the closed form on single-limit rules); callers use
+ * detectionProbability.
+ */
+export function chainSurvival(m: RuleMachine, n: number, shift: number, runs: number, q: Quadrature = DEFAULT_QUADRATURE): number {
+  const S = m.states;
+  const step = runStepper(m, n, shift, q);
   let v = new Float64Array(S);
   v[0] = 1;
   let mass = 1;
   let prev: Float64Array | undefined;
   let prevMass = 1;
   for (let r = 1; r <= runs; r++) {
-    let w: Float64Array;
-    if (nodes) {
-      w = rangeRun(m, n, v, nodes, work);
-    } else {
-      w = v;
-      for (let i = 0; i < n; i++) {
-        const out = new Float64Array(S);
-        observe(m, w, p, out);
-        w = out;
-      }
-    }
+    const w = step(v);
     const wMass = sum(w);
     if (!(wMass > 1e-300)) return 0;
     // Normalised distribution: once it repeats, every further run keeps the same share λ.
@@ -283,12 +519,8 @@ export function chainSurvival(m: RuleMachine, n: number, shift: number, runs: nu
     for (let s = 0; s < S; s++) u[s] = w[s] / wMass;
     mass *= wMass;
     if (mass < 1e-18) return mass;
-    if (prev && r < runs) {
-      let diff = 0;
-      for (let s = 0; s < S; s++) diff = Math.max(diff, Math.abs(u[s] - prev[s]));
-      if (diff < 1e-14 && Math.abs(wMass - prevMass) < 1e-14) {
-        return mass * Math.pow(wMass, runs - r);
-      }
+    if (prev && r < runs && settled(u, prev, wMass, prevMass)) {
+      return mass * Math.pow(wMass, runs - r);
     }
     prev = u;
     prevMass = wMass;
@@ -304,9 +536,15 @@ export function singleLimitRejection(limit: number, n: number, shift: number, ru
   return -Math.expm1(n * runs * Math.log1p(-q));
 }
 
-function checkCounts(n: number, runs: number): void {
+/** n, the controls per run (per QC event): whole, 1 … 100. */
+export function checkControls(n: number): number {
   wholeNumber(n, 'n', 1);
   if (n > MAX_CONTROLS) throw numError(`n must be at most ${MAX_CONTROLS} controls per run (got ${show(n)})`);
+  return n;
+}
+
+function checkCounts(n: number, runs: number): void {
+  checkControls(n);
   wholeNumber(runs, 'runs', 1);
   if (runs > MAX_RUNS) throw numError(`runs must be at most ${MAX_RUNS} (got ${show(runs)})`);
 }
@@ -366,6 +604,151 @@ export function shiftAxis(max = 6, step = 0.1): number[] {
   const out: number[] = [];
   for (let i = 0; i <= count; i++) out.push(Number((i * step).toPrecision(12)));
   return out;
+}
+
+/**
+ * Survival over the QC events that follow a shift: S_k = P(none of the first k events after the
+ * shift began rejects) = 1 − QC.DETECT(rule, n, Δ, k), the rule's memory empty at the shift.
+ * The list S_1 … S_K ends where the rest is known in closed form: from event K on, each further
+ * event is passed with the same probability λ (`factor`), so S_{K+j} = S_K·λ^j and
+ * Σ_{k>K} S_k = S_K·λ/(1 − λ) (`tail`; Infinity when λ = 1, a rule that cannot reject).
+ */
+export interface SurvivalSequence {
+  /** S_1 … S_K. */
+  readonly survival: readonly number[];
+  /** λ, the probability of passing each event after the K-th. */
+  readonly factor: number;
+  /** 1 − λ (for single-limit rules without cancellation). */
+  readonly rejection: number;
+  /** Σ_{k>K} S_k. */
+  readonly tail: number;
+  /**
+   * true: the tail is exact (closed form, or the normalised state distribution had stopped
+   * changing). false: the list ended because the rest had become negligible (below 1e-15 of the
+   * sum so far by a bound that holds from every state, or starting below 1e-250), and the tail
+   * is the geometric estimate.
+   */
+  readonly exact: boolean;
+}
+
+/** A rest below this share of the sum is left to the geometric estimate. */
+const NEGLIGIBLE = 1e-15;
+const TINY = 1e-250;
+
+/**
+ * P(a < Z < b) for 1 ≤ a < b, by 10-point Gauss–Legendre on pieces at most 0.125 SD wide: full
+ * relative precision far in the tail, where a difference of two tail values of Φ keeps only its
+ * absolute accuracy (about 1e-15).
+ */
+function tailMass(a: number, b: number): number {
+  // Beyond a + 40 the density is below φ(a)·e^(−40a): nothing in double precision.
+  const hi = Math.min(b, a + 40);
+  const pieces = Math.ceil((hi - a) / 0.125);
+  const h = (hi - a) / pieces;
+  const gl = glNodes(10);
+  let total = 0;
+  for (let p = 0; p < pieces; p++) {
+    const mid = a + (p + 0.5) * h;
+    let part = 0;
+    for (let i = 0; i < 10; i++) part += gl.w[i] * density(mid + 0.5 * h * gl.x[i]);
+    total += 0.5 * h * part;
+  }
+  return total;
+}
+
+/** ln P(−L < Z + Δ < L) for one observation, kept accurate whether it is near 0 or near 1. */
+function logInside(limit: number, shift: number): number {
+  const out = normalCdf(-limit - shift) + normalCdf(shift - limit);
+  if (out < 0.5) return Math.log1p(-out);
+  const inside = shift - limit > 1 ? tailMass(shift - limit, shift + limit) : intervalProbability(-limit - shift, limit - shift);
+  return inside > 0 ? Math.log(inside) : -Infinity;
+}
+
+function geometric(survival: number[], factor: number, rejection: number, exact: boolean): SurvivalSequence {
+  const last = survival[survival.length - 1];
+  let tail: number;
+  if (last === 0 || factor === 0) tail = 0;
+  else if (!(rejection > 0)) tail = Infinity;
+  else tail = (last * factor) / rejection;
+  return { survival, factor, rejection, tail, exact };
+}
+
+/**
+ * The survival sequence by one pass of the chain (machine.ts): the state distribution is pushed
+ * through one run at a time, the running product of the per-run pass probabilities is S_k, and
+ * the pass stops when the normalised distribution stops changing (to 1e-14; λ is then the last
+ * pass probability) or when a bound shows the rest negligible: `bound` is a probability of
+ * passing one run that holds from every state (P(|Z + Δ| ≤ L)^n for a 1-Ls term of the rule),
+ * so Σ_{k>K} S_k ≤ S_K·bound/(1 − bound); without a bound, when S_K falls below 1e-250 and
+ * 1e-15 of the sum. undefined when none of these happens within 10000 events.
+ * Exported for tests.
+ */
+export function chainSequence(
+  m: RuleMachine,
+  n: number,
+  shift: number,
+  bound = 1,
+  q: Quadrature = DEFAULT_QUADRATURE,
+  tabled = true,
+): SurvivalSequence | undefined {
+  const S = m.states;
+  const step = runStepper(m, n, shift, q, tabled);
+  let v = new Float64Array(S);
+  v[0] = 1;
+  const survival: number[] = [];
+  let mass = 1;
+  let total = 0;
+  let prev: Float64Array | undefined;
+  let prevMass = 1;
+  for (let k = 1; k <= MAX_RUNS; k++) {
+    const w = step(v);
+    const wMass = Math.min(1, sum(w));
+    mass *= wMass;
+    survival.push(mass);
+    if (!(mass > 0)) return geometric(survival, 0, 1, true);
+    total += mass;
+    const u = new Float64Array(S);
+    for (let s = 0; s < S; s++) u[s] = w[s] / wMass;
+    if (prev && settled(u, prev, wMass, prevMass)) return geometric(survival, wMass, 1 - wMass, true);
+    if (bound < 1 && (mass * bound) / (1 - bound) <= NEGLIGIBLE * total) return geometric(survival, wMass, 1 - wMass, false);
+    // Without such a bound (no 1-Ls term): a rest that starts below 1e-250 is nothing in any
+    // count of results (it is at most 1e-250/(1 − λ) for the λ the chain settles at).
+    if (mass < TINY && mass < NEGLIGIBLE * total) return geometric(survival, wMass, 1 - wMass, false);
+    prev = u;
+    prevMass = wMass;
+    v = u;
+  }
+  return undefined;
+}
+
+/**
+ * The survival sequence S_1, S_2, … of `rule` with n controls per QC event after a shift of
+ * `shift` SD (see SurvivalSequence). n whole 1…100, shift finite ≥ 0.
+ * Method: single-limit rules in closed form, S_k = r^k with r = P(|Z + Δ| ≤ L)^n (L the smallest
+ * limit), so K = 1, λ = r, 1 − λ = −expm1(n·ln P(|Z + Δ| ≤ L)), exact. Multirules by one pass of
+ * the exact chain (chainSequence): each event costs one run of the chain, and the tail is exact
+ * once the normalised state distribution stops changing; its relative accuracy is about
+ * 1e-16/(1 − λ) (the pass probabilities are sums of probabilities near 1). Not cached: callers
+ * that need a sum cache it.
+ */
+export function survivalSequence(rule: ControlRule | string, n: number, shift: number): SurvivalSequence {
+  const r = ruleOf(rule);
+  checkControls(n);
+  nonNegative(shift, 'shift');
+  const limits = r.terms.flatMap((t) => (t.kind === 'limit' ? [t.limit] : []));
+  const limit = limits.length ? Math.min(...limits) : Infinity;
+  const logPass = limits.length ? n * logInside(limit, shift) : 0;
+  if (isSingleLimit(r)) {
+    const pass = Math.exp(logPass);
+    return geometric([pass], pass, -Math.expm1(logPass), true);
+  }
+  const seq = chainSequence(machineOf(r), n, shift, Math.exp(logPass));
+  if (!seq) {
+    throw numError(
+      `rule "${r.text}" with n = ${n}: the chance of passing QC after a shift of ${show(shift)} SD did not settle within ${MAX_RUNS} QC events`,
+    );
+  }
+  return seq;
 }
 
 /** Empties every QC cache (parsed rules, machines, probabilities), for cold-start benchmarks. */
