@@ -165,6 +165,7 @@ function planCells(f: Fig<QcPlan>): Map<string, OutCell> | undefined {
     Detection: p.detection,
     'False rejection per run': p.falseRejectionPerRun,
     'Target met': p.targetMet,
+    'Run size': p.runSize,
   };
   return new Map(QC_PLAN.labels.map((l) => [l, values[l]]));
 }

@@ -66,7 +66,7 @@ describe('QC.DETECT and QC.FALSEREJECT in the registry', () => {
 describe('QC.PLAN in the registry', () => {
   test('spills two rows: the labels exactly, then the values; Target met is a logical', () => {
     const out = evaluate('QC.PLAN', [12, 1.5, 1.75]);
-    expect(out[0]).toEqual(['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met']);
+    expect(out[0]).toEqual(['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met', 'Run size']);
     expect(out[1].slice(0, 3)).toEqual(['1-3s', 1, 1]);
     // Sigma 6, critical shift 4.35: detection Φ(1.35) + Φ(−7.35), false rejection 2Φ(−3) (stdlib).
     expect(Math.abs((out[1][3] as number) - (Phi(1.35) + Phi(-7.35)))).toBeLessThan(1e-12);
@@ -158,5 +158,41 @@ describe('through the built command: leeway call --lines', () => {
     const bad = spawnSync(process.execPath, [bin, 'call', 'QC.DETECT', '1-3s/5-x5', '2', '1'], { encoding: 'utf8', timeout: 30000 });
     expect(bad.status).toBe(1);
     expect(bad.stderr).toMatch(/^#VALUE! rule term "5-x5"/);
+  });
+});
+
+describe('QC.RISK and QC.RUNSIZE in the registry', () => {
+  test('QC.PLAN\'s Run size is QC.RUNSIZE of the chosen rule and controls', () => {
+    const out = evaluate('QC.PLAN', [10, 1, 2]);
+    const [rule, n] = out[1];
+    expect(out[1][6]).toBe(evaluate('QC.RUNSIZE', [10, 1, 2, rule, n])[0][0]);
+  });
+
+  test('QC.RUNSIZE is the largest run size whose QC.RISK stays within maxrisk', () => {
+    const m = evaluate('QC.RUNSIZE', [10, 1, 2, '1-3s/2-2s/R-4s', 2])[0][0] as number;
+    expect(m).toBeGreaterThan(0);
+    expect(evaluate('QC.RISK', [10, 1, 2, '1-3s/2-2s/R-4s', 2, m])[0][0] as number).toBeLessThanOrEqual(1);
+    expect(evaluate('QC.RISK', [10, 1, 2, '1-3s/2-2s/R-4s', 2, m + 1])[0][0] as number).toBeGreaterThan(1);
+  });
+
+  test.each([
+    ['QC.RISK', [10, 1, 2, '1-3s', 2, 0], '#NUM!'],
+    ['QC.RISK', [10, 1, 2, '1-3s', 2, 2.5], '#NUM!'],
+    ['QC.RISK', [10, 1, 0, '1-3s', 2, 100], '#DIV/0!'],
+    ['QC.RISK', [10, 1, -2, '1-3s', 2, 100], '#NUM!'],
+    ['QC.RISK', [10, 1, 2, '1-3s', 0, 100], '#NUM!'],
+    ['QC.RISK', [10, 1, 2, '3-3q', 2, 100], '#VALUE!'],
+    ['QC.RUNSIZE', [10, 1, 2, '1-3s', 2, 0], '#NUM!'],
+    ['QC.RUNSIZE', [10, 1, 2, '1-3s', 2, -1], '#NUM!'],
+    ['QC.RUNSIZE', [10, 1, 0, '1-3s', 2], '#DIV/0!'],
+  ])('%s%j gives %s', (name, args, code) => {
+    expect(err(evaluate(name as string, args as never)[0][0]).error).toBe(code);
+  });
+
+  test('a method that fails without a shift: QC.RISK #NUM! naming sigma, QC.RUNSIZE 0', () => {
+    const e = err(evaluate('QC.RISK', [3, 1, 2, '1-3s', 2, 100])[0][0]);
+    expect(e.error).toBe('#NUM!');
+    expect(e.message).toMatch(/sigma/i);
+    expect(evaluate('QC.RUNSIZE', [3, 1, 2, '1-3s', 2])[0][0]).toBe(0);
   });
 });

@@ -59,7 +59,7 @@ function plausibleArg(rand: () => number, p: FunctionDef['params'][number], leng
   }
   const value = () => (rand() < 0.05 ? null : Number((0.01 + 30 * rand()).toPrecision(6)));
   if (p.kind === 'range') return Array.from({ length }, (_v, k) => [p.name === 'groups' ? `run ${k % 4}` : value()]);
-  return p.name === 'n' || p.name === 'runs' || p.name === 'sides' ? 1 + Math.floor(rand() * 3) : p.name === 'probability' || p.name === 'target' || p.name === 'limit' ? rand() : value();
+  return p.name === 'runsize' ? 1 + Math.floor(rand() * 300) : p.name === 'n' || p.name === 'runs' || p.name === 'sides' || p.name === 'samples' ? 1 + Math.floor(rand() * 3) : p.name === 'probability' || p.name === 'target' || p.name === 'limit' || p.name === 'confidence' ? rand() : value();
 }
 
 function argFor(rand: () => number, def: FunctionDef, i: number, plausible: boolean, length: number): Arg {

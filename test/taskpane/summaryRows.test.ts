@@ -30,7 +30,7 @@ describe('summary rows', () => {
       expect(s.sigma).toBe(one('PERF.SIGMA', tea, bias, cv));
       expect(s.tierMet).toBe(one('PERF.TIER', cvi, cvg, bias, cv, 1.65, 'total'));
       const plan = evaluate('QC.PLAN', [tea, bias, cv]);
-      expect(plan[0]).toEqual(['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met']);
+      expect(plan[0]).toEqual(['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met', 'Run size']);
       const [rule, n, runs, det, fr, met] = plan[1];
       expect(s.rule).toBe(met === 'yes' || met === true || met === 'TRUE' ? rule : `${rule} (target not met)`);
       expect([s.controls, s.runs, s.detection, s.falseRejection]).toEqual([n, runs, det, fr]);

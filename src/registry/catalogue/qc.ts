@@ -6,6 +6,7 @@ import { detectionProbability, falseRejectionProbability } from '../../engine/qc
 import { DEFAULT_FALSE_REJECTION_LIMIT, DEFAULT_TARGET, planQc } from '../../engine/qc/plan';
 import { ControlRule, parseRule } from '../../engine/qc/rules';
 import { controlFlags } from '../../engine/qc/flags';
+import { DEFAULT_MAX_RISK, qcRisk, qcRunSize } from '../../engine/qc/risk';
 import type { ControlSeries, Entry, Label } from '../../engine/qc/flags';
 import { controlReview } from '../../engine/qc/review';
 import { naError, valueError } from '../../engine/errors';
@@ -60,10 +61,10 @@ export const QC_PLAN = labelled({
   doc: {
     summary: 'the simplest candidate rule reaching 90 % detection with ≤ 5 % false rejection per run',
     description:
-      'The simplest candidate QC procedure that detects the critical shift (allowable − |bias|)/CV − 1.65 with probability ≥ target (default 0.90) and false rejection per run 1 − (1 − P_fr)^(1/runs) ≤ limit (default 0.05). Candidates: 1-3.5s, 1-3s, 1-2.5s with n = 1–4; 1-3s/2-2s/R-4s; /4-1s; /10-x. Lowest n wins, then fewest runs, then lowest false rejection. Percent inputs. QC design is the laboratory\'s decision.',
+      'The simplest candidate QC procedure that detects the critical shift (allowable − |bias|)/CV − 1.65 with probability ≥ target (default 0.90) and false rejection per run 1 − (1 − P_fr)^(1/runs) ≤ limit (default 0.05). Candidates: 1-3.5s, 1-3s, 1-2.5s with n = 1–4; 1-3s/2-2s/R-4s; /4-1s; /10-x. Lowest n wins, then fewest runs, then lowest false rejection. Run size is QC.RUNSIZE of the chosen rule and controls (at most 1 expected unreliable final result). Percent inputs. QC design is the laboratory\'s decision.',
     sources: [WESTGARD_1979, WESTGARD_1981],
     returns: 'Labels, then the plan\'s values.',
-    example: { args: [6.94, 1.2, 1.5], show: ['Rule', 'Controls per run', 'Runs'] },
+    example: { args: [6.94, 1.2, 1.5], show: ['Rule', 'Controls per run', 'Run size'] },
   },
   params: [
     ALLOWABLE,
@@ -72,7 +73,7 @@ export const QC_PLAN = labelled({
     optNum('target', DEFAULT_TARGET, 'Detection wanted at the critical shift, strictly between 0 and 1; default 0.90.'),
     optNum('limit', DEFAULT_FALSE_REJECTION_LIMIT, 'Largest false rejection per run, strictly between 0 and 1; default 0.05.'),
   ],
-  labels: ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met'],
+  labels: ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met', 'Run size'],
   fn: (allowable: number, bias: number, cv: number, target: number, limit: number) => {
     const plan = planQc(allowable, bias, cv, target, limit);
     return {
@@ -82,6 +83,7 @@ export const QC_PLAN = labelled({
       Detection: plan.detection,
       'False rejection per run': plan.falseRejectionPerRun,
       'Target met': plan.targetMet,
+      'Run size': plan.runSize,
     };
   },
 });
@@ -175,4 +177,43 @@ export const QC_REVIEW = labelled({
   },
 });
 
-export const QC_FUNCTIONS = [QC_DETECT, QC_FALSEREJECT, QC_PLAN, QC_FLAGS, QC_REVIEW];
+const PARVIN = 'Parvin CA. Clin Chem 2008;54:2049–54';
+const C24 = 'CLSI C24, 4th ed. (2016)';
+const RISK_METHOD =
+  'E(Nuf)(Δ) = ΔP_E(Δ)·M·(S₁/2 + Σ_{k≥2} S_k), P_E(Δ) = Φ(−(A + |b|)/s − Δ) + Φ(−(A − |b|)/s + Δ), S_k = 1 − QC.DETECT(rule, n, Δ, k). The sum over QC events comes from the exact rejection chain with its geometric tail once the chain settles (truncated below 1e-15 of the sum otherwise); the maximum over 0 ≤ Δ ≤ 10 is found on a 0.25 SD grid refined by Brent\'s method to 2e-5 SD, a relative error far below 1e-6 in the value. A method whose critical shift (A − |b|)/s − 1.65 is ≤ 0 already fails without a shift:';
+const N_RISK = num('n', 'Controls per QC event, a whole number 1–100.');
+
+export const QC_RISK = elementwise({
+  name: 'QC.RISK',
+  doc: {
+    summary: 'the largest expected number of unreliable final patient results a shift leaves (MaxE(Nuf))',
+    description: `The largest expected number of unreliable final patient results over all shifts, with QC events bracketing runs of runsize patient results (Parvin's model; a shift begins at a random point between two events, and results since the last accepted event are corrected when QC rejects). ${RISK_METHOD} QC.RISK then gives #NUM!. Percent inputs; cv > 0.`,
+    sources: [PARVIN, C24],
+    returns: 'MaxE(Nuf): expected unreliable final results at the worst shift.',
+    example: { args: [10, 1, 2, '1-3s/2-2s/R-4s', 2, 100] },
+  },
+  params: [ALLOWABLE, BIAS, num('cv', 'Observed analytical CV, %; > 0.'), RULE, N_RISK, num('runsize', 'Patient results between QC events, a whole number 1–1,000,000.')],
+  fn: (allowable: number, bias: number, cv: number, rule: ControlRule, n: number, runsize: number) => qcRisk(allowable, bias, cv, rule, n, runsize),
+});
+
+export const QC_RUNSIZE = elementwise({
+  name: 'QC.RUNSIZE',
+  doc: {
+    summary: 'the most patient results between QC events that keep QC.RISK within maxrisk',
+    description: `The largest number of patient results between QC events that keeps QC.RISK ≤ maxrisk (default 1, as CLSI C24 suggests): ⌊maxrisk / max over Δ of (E(Nuf)(Δ)/M)⌋ (E is linear in M), at most 1,000,000; 0 when even one result between events is too many. ${RISK_METHOD} QC.RUNSIZE then gives 0. Percent inputs; cv > 0.`,
+    sources: [PARVIN, C24],
+    returns: 'Run size: patient results between QC events.',
+    example: { args: [10, 1, 2, '1-3s/2-2s/R-4s', 2] },
+  },
+  params: [
+    ALLOWABLE,
+    BIAS,
+    num('cv', 'Observed analytical CV, %; > 0.'),
+    RULE,
+    N_RISK,
+    optNum('maxrisk', DEFAULT_MAX_RISK, 'Largest acceptable expected number of unreliable final results, > 0; default 1.'),
+  ],
+  fn: (allowable: number, bias: number, cv: number, rule: ControlRule, n: number, maxrisk: number) => qcRunSize(allowable, bias, cv, rule, n, maxrisk),
+});
+
+export const QC_FUNCTIONS = [QC_DETECT, QC_FALSEREJECT, QC_PLAN, QC_FLAGS, QC_REVIEW, QC_RISK, QC_RUNSIZE];
