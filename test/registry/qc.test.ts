@@ -165,7 +165,7 @@ describe('QC.RISK and QC.RUNSIZE in the registry', () => {
   test('QC.PLAN\'s Run size is QC.RUNSIZE of the chosen rule and controls', () => {
     const out = evaluate('QC.PLAN', [10, 1, 2]);
     const [rule, n] = out[1];
-    expect(out[1][6]).toBe(evaluate('QC.RUNSIZE', [10, 1, 2, rule, n])[0][0]);
+    expect(out[1][6]).toBe(evaluate('QC.RUNSIZE', [10, 1, 2, rule as string, n as number])[0][0]);
   });
 
   test('QC.RUNSIZE is the largest run size whose QC.RISK stays within maxrisk', () => {
