@@ -12,7 +12,6 @@ const { loadSources } = require('./lib/load-sources');
 const path = require('path');
 const fs = require('fs');
 const os = require('os');
-const root = path.join(__dirname, '..');
 
 const entry = `
 export { parseTableText, acceptImport } from './src/engine/table';

@@ -13,7 +13,6 @@ const { spawnSync } = require('child_process');
 const fs = require('fs');
 const os = require('os');
 const path = require('path');
-const { performance } = require('perf_hooks');
 
 const root = path.join(__dirname, '..');
 const bundle = path.join(root, 'dist', 'cli', 'leeway.js');

@@ -6,8 +6,6 @@
 // Targets (issue 4): DETECT cold ≤ 20 ms, cached ≤ 0.1 ms; PLAN cold ≤ 250 ms; 300 PLANs in seconds.
 'use strict';
 const { loadSources } = require('./lib/load-sources');
-const path = require('path');
-const root = path.join(__dirname, '..');
 
 const entry = `
 export { evaluate } from './src/registry';

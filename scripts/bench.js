@@ -7,7 +7,6 @@ const { loadSources } = require('./lib/load-sources');
 const path = require('path');
 const fs = require('fs');
 const zlib = require('zlib');
-const { performance } = require('perf_hooks');
 const root = path.join(__dirname, '..');
 const json = process.argv.includes('--json');
 

@@ -105,18 +105,15 @@ function quantile(nu, prob, tail) {
   } else {
     y = new D(w > 0 ? an * w * w * w : Math.max(1, -Math.log(target.toNumber())));
   }
-  let residual;
   for (let i = 0; i < 200; i++) {
     const t = tails(a, y, lnGammaA);
     const g = (upper ? t.lnQ : t.lnP).minus(lnTarget);
-    residual = g.abs();
     const slope = upper ? D.exp(t.lnPrefix.minus(t.lnQ)).neg() : D.exp(t.lnPrefix.minus(t.lnP));
     let step = g.neg().div(slope);
     if (step.abs().lt('1e-40')) {
       y = y.times(D.exp(step));
       const f = tails(a, y, lnGammaA);
-      residual = (upper ? f.lnQ : f.lnP).minus(lnTarget).abs();
-      return { x: y.times(2), residual };
+      return { x: y.times(2), residual: (upper ? f.lnQ : f.lnP).minus(lnTarget).abs() };
     }
     if (step.gt(20)) step = new D(20);
     if (step.lt(-20)) step = new D(-20);

@@ -3,7 +3,6 @@ import * as fs from 'fs';
 import * as os from 'os';
 import * as path from 'path';
 
-// eslint-disable-next-line @typescript-eslint/no-require-imports
 const { checkManifest } = require('../scripts/check-manifest.js') as {
   checkManifest: (manifest: string, dist: string) => Promise<string[]>;
 };

@@ -51,7 +51,6 @@ function closeToShown(value: unknown, shown: string): void {
 
 describe('README function table', () => {
   test('is the one the function catalogue gives, as are docs/reference/functions (npm run docs)', () => {
-    // eslint-disable-next-line @typescript-eslint/no-require-imports
     const { generated } = require('../scripts/docs.js') as { generated: () => { files: Map<string, string> } };
     for (const [file, text] of generated().files) {
       const now = fs.existsSync(file) ? fs.readFileSync(file, 'utf8') : '(missing)';

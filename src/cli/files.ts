@@ -27,7 +27,7 @@ export function checkRegularFile(file: string, what: string, limit: number = IMP
   try {
     st = fs.statSync(file);
   } catch (e) {
-    throw new Error(`cannot read the ${what} ${file}: ${whyNot(e)}`);
+    throw new Error(`cannot read the ${what} ${file}: ${whyNot(e)}`, { cause: e });
   }
   if (!st.isFile()) throw new Error(`cannot read the ${what} ${file}: ${kindOf(st)}`);
   if (st.size > limit) throw new Error(`cannot read the ${what} ${file}: it is ${describeBytes(st.size)}, over Leeway's limit of ${describeBytes(limit)}`);
@@ -45,7 +45,7 @@ export function readBytes(file: string, what: string, limit: number = IMPORT_LIM
   try {
     fd = fs.openSync(file, fs.constants.O_RDONLY | (fs.constants.O_NONBLOCK ?? 0));
   } catch (e) {
-    throw new Error(`cannot read the ${what} ${file}: ${whyNot(e)}`);
+    throw new Error(`cannot read the ${what} ${file}: ${whyNot(e)}`, { cause: e });
   }
   try {
     const st = fs.fstatSync(fd);

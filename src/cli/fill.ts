@@ -109,7 +109,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
     try {
       await wb.xlsx.readFile(template);
     } catch (e) {
-      throw new Error(`cannot read the template ${template}: ${(e as Error).message} (is it an .xlsx workbook?)`);
+      throw new Error(`cannot read the template ${template}: ${(e as Error).message} (is it an .xlsx workbook?)`, { cause: e });
     }
     const found = sheetName === undefined ? wb.worksheets[0] : wb.getWorksheet(sheetName);
     if (!found) {

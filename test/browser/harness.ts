@@ -22,7 +22,6 @@ export const hasChromium = fs.existsSync(CHROMIUM);
 /** `describe` when Chromium is installed, else `describe.skip` with a message saying why. */
 export function describeInBrowser(name: string, body: () => void): void {
   if (!hasChromium) {
-    // eslint-disable-next-line no-console
     console.warn(`SKIPPED browser tests "${name}": ${CHROMIUM} is not installed (apt-get install chromium, or run .ci/run).`);
     describe.skip(name, body);
     return;
@@ -89,7 +88,6 @@ export function serve(): Promise<{ url: string; close: () => Promise<void> }> {
 
 export async function launch(): Promise<Browser> {
   // Required lazily so the suite can be skipped without loading playwright.
-  // eslint-disable-next-line @typescript-eslint/no-var-requires
   const { chromium } = require('playwright-core') as typeof import('playwright-core');
   return chromium.launch({
     executablePath: CHROMIUM,

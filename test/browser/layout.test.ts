@@ -124,7 +124,6 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
     const js = fs.readFileSync(path.join(DIST, 'taskpane.js'), 'utf8');
     const html = fs.readFileSync(path.join(DIST, 'taskpane.html'), 'utf8');
     const kb = Buffer.byteLength(js) / 1024;
-    // eslint-disable-next-line no-console
     console.log(`taskpane.js: ${kb.toFixed(1)} KB minified (office.js not included)`);
     expect(kb).toBeLessThan(300);
     expect(html).toContain("script-src 'self'");
@@ -142,7 +141,6 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
       const nav = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming;
       return { fcp: fcp ? fcp.startTime : NaN, domContentLoaded: nav.domContentLoadedEventEnd };
     });
-    // eslint-disable-next-line no-console
     console.log(`first contentful paint ${timing.fcp.toFixed(0)} ms, DOMContentLoaded ${timing.domContentLoaded.toFixed(0)} ms (real office.js served with the add-in, localhost)`);
     expect(timing.fcp).toBeLessThan(2000);
     expect(errors.filter((e) => e.startsWith('blocked request') || /Content Security Policy/i.test(e))).toEqual([]);

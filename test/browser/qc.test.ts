@@ -120,7 +120,6 @@ describeInBrowser('task pane: QC design and summary', () => {
       await page.fill('#qc-bias', bias);
       times.push(Number(await page.getAttribute('#qc-curves', 'data-draw-ms')));
     }
-    // eslint-disable-next-line no-console
     console.log(`QC view redraw with cached curves: ${times.map((t) => t.toFixed(1)).join(', ')} ms`);
     expect(Math.min(...times)).toBeLessThan(16.7);
     await context.close();

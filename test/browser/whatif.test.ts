@@ -185,7 +185,6 @@ describeInBrowser('task pane: what-if', () => {
     const renderMs = Number(await page.getAttribute('#whatif-menu', 'data-render-ms'));
     expect(await page.$$eval('#menu-table tbody tr', (t) => t.length)).toBe(1000);
     expect(await statusText(page)).toBe('Read observed bias and CV for 1000 analytes from Sheet1.');
-    // eslint-disable-next-line no-console
     console.log(`what-if, 1,000 analytes: open view ${openMs.toFixed(1)} ms; read sheet + compute + render ${sheetMs} ms (table render ${renderMs} ms)`);
     expect(openMs).toBeLessThan(200);
     expect(sheetMs).toBeLessThan(200);

@@ -8,7 +8,6 @@ import { chartSeries, ChartSeries, controlChartSvg, cut, escapeXml, Z_EDGE } fro
 import { evaluateControls } from '../../src/engine/qc/flags';
 import { parseRule } from '../../src/engine/qc/rules';
 
-// eslint-disable-next-line @typescript-eslint/no-require-imports
 const xml2js: { parseStringPromise(text: string, options?: object): Promise<Record<string, unknown>> } = require('xml2js');
 
 interface El {

@@ -92,7 +92,7 @@ describe('leeway demo', () => {
   });
 
   test('LibreOffice headless converts it to PDF', () => {
-    let soffice = '';
+    let soffice: string;
     try {
       soffice = execFileSync('sh', ['-c', 'command -v soffice || command -v libreoffice'], { encoding: 'utf8' }).trim();
     } catch {

@@ -29,7 +29,7 @@ export class DateOrder {
   }
 
   /** One warning per series whose dates go back. */
-  report<F extends string>(warn: (line: number, letter: string, message: string) => void): void {
+  report(warn: (line: number, letter: string, message: string) => void): void {
     for (const b of this.back.values()) {
       const more = b.count > 1 ? ` (${b.count} places in ${b.name})` : '';
       warn(

@@ -10,7 +10,7 @@ import {
 import { zFromCoverage } from '../../engine/coverage';
 import { nonNegative } from '../../engine/guards';
 import { aggregate, elementwise, num, optNum } from '../define';
-import { CVG, CVI, TIER, Z_TE } from '../params';
+import { CVG, CVI, TIER } from '../params';
 import type { Output } from '../types';
 
 const TIER_SOURCES = ['Fraser CG, Hyltoft Petersen P, Libeer JC, Ricós C. Ann Clin Biochem 1997;34:8–12'];

@@ -12,9 +12,9 @@ jest.mock('office-addin-manifest', () => ({
 import { createSheetIO, excelInput, FillWriteError } from '../../../src/taskpane/excel';
 import { OfficeMockObject } from 'office-addin-mock';
 import type { ExcelRun } from '../../../src/taskpane/excel';
-import { harness, rangeCells } from '../../support/excel-harness';
+import { harness } from '../../support/excel-harness';
 import type { Model } from '../../support/excel-harness';
-import { planFill, parseA1, a1 } from '../../../src/engine/fill';
+import { planFill } from '../../../src/engine/fill';
 import type { FillPlan, FillRequest, SheetSnapshot } from '../../../src/engine/fill';
 import type { VariationRow, VariationTable } from '../../../src/engine/table';
 
