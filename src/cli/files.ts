@@ -5,8 +5,13 @@ import type ExcelJS from 'exceljs';
 
 /** Reads a text file; a missing or unreadable file is an Error whose message says which and why. */
 export function readText(file: string, what: string): string {
+  return readBytes(file, what).toString('utf8');
+}
+
+/** Reads a file's bytes; a missing or unreadable file is an Error whose message says which and why. */
+export function readBytes(file: string, what: string): Buffer {
   try {
-    return fs.readFileSync(file, 'utf8');
+    return fs.readFileSync(file);
   } catch (e) {
     const code = (e as NodeJS.ErrnoException).code;
     const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' ? 'permission denied' : (e as Error).message;
@@ -34,6 +39,24 @@ export async function writeWorkbookAtomically(wb: ExcelJS.Workbook, out: string,
   const tmp = path.join(path.dirname(abs), `.${path.basename(abs)}.${process.pid}.${Date.now().toString(36)}.tmp`);
   try {
     await wb.xlsx.writeFile(tmp);
+    checkOutput(out, force);
+    fs.renameSync(tmp, abs);
+  } catch (e) {
+    fs.rmSync(tmp, { force: true });
+    throw e;
+  }
+}
+
+/**
+ * Writes bytes to a temporary file beside `out`, then renames it into place (also when `out` is
+ * the file the bytes were read from: it is replaced whole or not at all).
+ */
+export function writeBytesAtomically(bytes: Uint8Array, out: string, force: boolean): void {
+  checkOutput(out, force);
+  const abs = path.resolve(out);
+  const tmp = path.join(path.dirname(abs), `.${path.basename(abs)}.${process.pid}.${Date.now().toString(36)}.tmp`);
+  try {
+    fs.writeFileSync(tmp, bytes);
     checkOutput(out, force);
     fs.renameSync(tmp, abs);
   } catch (e) {

@@ -252,7 +252,14 @@ function provenancePairs(req: FillRequest, p: Provenance): Array<[string, string
     ['Data sources', summariseSources(p.sources)],
     ['Filled on', req.date],
     ['Program', `Leeway ${p.version}`],
-    ['Derived columns', req.mode === 'live' ? 'live LEEWAY formulas (the Leeway add-in computes them)' : "values computed at fill time; each column's formula is in its header's note and below"],
+    [
+      'Derived columns',
+      req.mode === 'live'
+        ? 'live LEEWAY formulas (the Leeway add-in computes them)'
+        : req.target.kind === 'new-sheet'
+          ? "values computed at fill time; each column's formula is in its header's note and below"
+          : "values computed at fill time; each column's formula is below",
+    ],
   );
   return pairs;
 }

@@ -63,8 +63,12 @@ export function formatTemplateReport(plan: FillPlan, hints: ReportHints, limit =
   const out: string[] = [];
   const n = (k: number, one: string, many = `${one}s`): string => `${k} ${k === 1 ? one : many}`;
   if (plan.conflicts.length) {
-    out.push(plan.overwrite ? `overwrote ${n(plan.conflicts.length, 'non-empty cell')}:` : `left ${n(plan.conflicts.length, 'non-empty target cell')} as ${plan.conflicts.length === 1 ? 'it was' : 'they were'} (${hints.overwrite}):`);
-    for (const c of plan.conflicts.slice(0, limit)) out.push(`  ${c.address} holds ${JSON.stringify(c.existing)}; Leeway ${plan.overwrite ? 'wrote' : 'would write'} ${JSON.stringify(c.planned)}`);
+    out.push(
+      plan.overwrite
+        ? `overwrote ${n(plan.conflicts.length, 'cell')}: ${listed(plan.conflicts.map((c) => c.address), limit)}`
+        : `left ${n(plan.conflicts.length, 'non-empty target cell')} as ${plan.conflicts.length === 1 ? 'it was' : 'they were'} (${hints.overwrite}):`,
+    );
+    for (const c of plan.conflicts.slice(0, limit)) out.push(`  ${c.address} ${plan.overwrite ? 'held' : 'holds'} ${JSON.stringify(c.existing)}; Leeway ${plan.overwrite ? 'wrote' : 'would write'} ${JSON.stringify(c.planned)}`);
     if (plan.conflicts.length > limit) out.push(`  and ${plan.conflicts.length - limit} more`);
   }
   if (plan.blocked.length) {
@@ -72,10 +76,9 @@ export function formatTemplateReport(plan: FillPlan, hints: ReportHints, limit =
     for (const b of plan.blocked.slice(0, limit)) out.push(`  ${b.address} (${b.reason}); Leeway would write ${JSON.stringify(b.planned)}`);
     if (plan.blocked.length > limit) out.push(`  and ${plan.blocked.length - limit} more`);
   }
-  const appendedKeys = new Set(t.appended.map((r) => r.key));
   const notAdded = t.notInTemplate.filter((x) => !t.appended.some((r) => r.analyte === x.analyte && r.specimen === x.specimen) && !t.noRoom.some((r) => r.analyte === x.analyte && r.specimen === x.specimen));
   if (notAdded.length) out.push(`the template does not list ${n(notAdded.length, 'analyte')} of the table (not added; ${hints.append}): ${listed(notAdded.map(named), limit)}`);
-  if (appendedKeys.size) out.push(`appended ${n(t.appended.length, 'analyte')} below the table: ${t.appended.map((r) => `${named(r)} (row ${r.row})`).join(', ')}`);
+  if (t.appended.length) out.push(`appended ${n(t.appended.length, 'analyte')} below the table: ${t.appended.map((r) => `${named(r)} (row ${r.row})`).join(', ')}`);
   if (t.noRoom.length) out.push(`no room to append ${n(t.noRoom.length, 'analyte')} (${t.noRoomReason}): ${listed(t.noRoom.map(named), limit)}`);
   if (t.missingFromTable.length) out.push(`the table has no row for ${n(t.missingFromTable.length, 'analyte')} of the template (left blank): ${listed(t.missingFromTable.map((m) => `${named(m)} (row ${m.row})`), limit)}`);
   for (const a of t.ambiguous) {
