@@ -307,7 +307,7 @@ export class WorkbookPackage {
 
   /** The package with the changed parts replaced; every other entry keeps its compressed bytes. */
   async bytes(): Promise<Buffer> {
-    for (const [path, text] of this.changed) this.zip.file(path, encodePart(text), { binary: true });
+    for (const [path, text] of this.changed) this.zip.file(path, encodePart(text), { binary: true, createFolders: false });
     return this.zip.generateAsync({ type: 'nodebuffer', compression: 'DEFLATE', compressionOptions: { level: 6 }, platform: 'DOS' });
   }
 }
