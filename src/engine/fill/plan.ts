@@ -597,10 +597,11 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
     appended = notInTemplate.slice(0, room).map((row, i) => ({ row, at: start + i, matched: false }));
     noRoom = notInTemplate.slice(room);
     if (noRoom.length && next !== undefined) {
+      const empty = next - start;
       noRoomReason =
         next > index.readThrough
           ? `rows below ${index.readThrough} were not read`
-          : `row ${next} holds other content${room === 0 ? '' : ` (${room} empty row${room === 1 ? '' : 's'} above it, one of which stays empty)`}; appending writes only into empty rows directly below the table and keeps one empty row above other content`;
+          : `row ${next} holds other content${empty === 0 ? ' directly below the table' : `, ${empty} empty row${empty === 1 ? '' : 's'} below the table, one of which stays empty`}; appending writes only into empty rows directly below the table and keeps one empty row above other content`;
     }
     placements.push(...appended);
   }

@@ -218,7 +218,7 @@ describe('merged cells', () => {
   test('an analyte the template lacks is not appended into a merged band; with append the report says there is no room', () => {
     const p = plan(rows, { sheet: s, append: true });
     expect(p.template.noRoom).toEqual([{ analyte: 'Calcium', specimen: '' }]);
-    expect(p.template.noRoomReason).toMatch(/^row 5 holds other content/);
+    expect(p.template.noRoomReason).toMatch(/^row 5 holds other content directly below the table;/);
     expect(p.cells.some((c) => c.row === 5)).toBe(false);
   });
 });
@@ -248,7 +248,7 @@ describe('appending', () => {
     const tight = plan(rows, { sheet: sheet({ ...base, A3: 'Note: limits are local' }), append: true });
     expect(tight.template.appended).toEqual([]);
     expect(tight.template.noRoom.map((n) => n.analyte)).toEqual(['Calcium', 'Magnesium']);
-    expect(tight.template.noRoomReason).toMatch(/^row 3 holds other content/);
+    expect(tight.template.noRoomReason).toMatch(/^row 3 holds other content directly below the table;/);
     const two = plan(rows, { sheet: sheet({ ...base, A5: '* limits are local' }), append: true });
     expect(two.template.appended.map((r) => [r.analyte, r.row])).toEqual([['Calcium', 3]]);
     expect(two.template.noRoom.map((n) => n.analyte)).toEqual(['Magnesium']);
