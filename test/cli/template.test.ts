@@ -15,6 +15,7 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import { createHash } from 'crypto';
+import { execFileSync } from 'child_process';
 import JSZip from 'jszip';
 import { leeway, tempDir, strayFiles } from './support';
 import { TemplateWorkbook } from '../../src/cli/workbook/template';
@@ -320,4 +321,46 @@ describe('in place, and files that are not .xlsx workbooks', () => {
     expect(err).not.toMatch(/Cannot read properties|undefined|null|https?:|at [\w.]+ \(/);
     expect(strayFiles(dir, ['template.xlsx'])).toEqual([]);
   });
+});
+
+describe('printed: LibreOffice renders a filled template to PDF', () => {
+  const which = (cmd: string): string => {
+    try {
+      return execFileSync('sh', ['-c', `command -v ${cmd}`], { encoding: 'utf8' }).trim();
+    } catch {
+      return '';
+    }
+  };
+
+  test.each(['printable.xlsx', 'printable-libreoffice.xlsx'])('%s: the provenance and the caution print whole, on the page of the figures', async (file) => {
+    const soffice = which('soffice') || which('libreoffice');
+    const pdftotext = which('pdftotext');
+    const pdftoppm = which('pdftoppm');
+    if (!soffice || !pdftotext || !pdftoppm) {
+      console.log(`SKIPPED: ${!soffice ? 'soffice (LibreOffice)' : 'pdftotext/pdftoppm (poppler-utils)'} is not installed; the print check of ${file} did not run`);
+      return;
+    }
+    const { out, dir } = await fill(file);
+    const pdfDir = path.join(dir, 'pdf');
+    fs.mkdirSync(pdfDir);
+    execFileSync(soffice, ['--headless', `-env:UserInstallation=file://${path.join(dir, 'lo-profile')}`, '--convert-to', 'pdf', '--outdir', pdfDir, out], { stdio: 'pipe', timeout: 180000 });
+    const pdf = path.join(pdfDir, 'filled.pdf');
+    const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [pdf], { encoding: 'utf8' }))![1]);
+    expect(pages).toBe(1);
+    const page1 = execFileSync(pdftotext, ['-f', '1', '-l', '1', '-layout', pdf, '-'], { encoding: 'utf8' });
+    // The figures: the header, an analyte row and its allowable total error shown to two decimals.
+    expect(page1).toMatch(/Allowable\s+Allowable\s+total error/);
+    expect(page1).toMatch(/Arvelin\s+Serum\s+5\.7\s+6\.9\s+2\.85\s+2\.24\s+6\.94/);
+    // The block, with whole labels and the caution's last words.
+    for (const t of ['Leeway — analytical performance specifications', 'Tier (whole sheet)', 'z (coverage factor)', 'desirable', 'Table: table.csv', 'Table file SHA-256:', 'Filled on: 2026-02-03', `Program: Leeway ${VERSION}`, 'critically appraised source.']) {
+      expect(page1).toContain(t);
+    }
+    const words = page1.replace(/\s+/g, ' ');
+    expect(words).toContain(CAUTION.replace(/\s+/g, ' ').slice(-60));
+    // The picture, kept for a look: out/templates/<file>-1.png.
+    const keep = path.join(__dirname, '..', '..', 'out', 'templates');
+    fs.mkdirSync(keep, { recursive: true });
+    execFileSync(pdftoppm, ['-png', '-r', '70', '-f', '1', '-l', '1', pdf, path.join(keep, file.replace(/\.xlsx$/, ''))]);
+    expect(fs.readdirSync(keep).some((f) => f.startsWith(file.replace(/\.xlsx$/, '')) && f.endsWith('.png'))).toBe(true);
+  }, 200000);
 });

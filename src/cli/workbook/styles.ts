@@ -72,7 +72,7 @@ export class StyleBook {
     if (format === undefined || this.missing || this.xfs.length === 0) return base;
     const index = base !== undefined && base >= 0 && base < this.xfs.length ? base : 0;
     const xf = this.xfs[index];
-    if (xf.numFmtId !== 0) return base;
+    if (!this.isGeneral(xf.numFmtId)) return base;
     const key = `${index}|${format}`;
     const known = this.memo.get(key);
     if (known !== undefined) return known;
@@ -84,6 +84,13 @@ export class StyleBook {
     this.added.push(start + xf.raw.slice(startEnd));
     this.memo.set(key, out);
     return out;
+  }
+
+  /** Number format 0, or a format whose code is "General" (LibreOffice writes General as format 164). */
+  private isGeneral(id: number): boolean {
+    if (id === 0) return true;
+    for (const [code, known] of this.formats) if (known === id) return code.trim().toLowerCase() === 'general';
+    return false;
   }
 
   private formatId(code: string): number {

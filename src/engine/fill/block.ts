@@ -113,7 +113,8 @@ export function besideBlock(at: CellRef, b: BlockText, tierPrefix = ''): PlacedB
  * characters; `span` the table's width in characters (the wrap width).
  */
 export function belowBlock(top: number, left: number, span: number, width: (col: number) => number, b: BlockText): PlacedBlock {
-  const wrap = Math.max(MIN_WRAP, Math.floor(span) - 1);
+  // Widths count digits; a line of text in a proportional font runs a little wider, hence 95 %.
+  const wrap = Math.max(MIN_WRAP, Math.floor(span * 0.95) - 1);
   const cells: BlockCell[] = [];
   let r = top;
   const lines = (t: string, role: CellRole): void => {
