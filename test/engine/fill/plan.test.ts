@@ -1,5 +1,5 @@
 /**
- * The fill planner (SPEC.md section 6). Expected values come from the registry's evaluate() on
+ * The fill planner. Expected values come from the registry's evaluate() on
  * the same inputs (the function both front ends run) and from the usual worked example
  * CVI 5.7 %, CVG 6.9 %, desirable: total error 6.94 % at z = 1.65 (common practice, no source).
  */
@@ -90,7 +90,7 @@ describe('planFill on a new sheet, live formulas', () => {
     expect(at(p, p.zCell.replace(/\$/g, ''))!.content).toEqual({ kind: 'number', value: 1.65 });
   });
 
-  test('provenance: table name and source, tier, z, date, program version; and the caution of SPEC.md section 9', () => {
+  test('provenance: table name and source, tier, z, date, program version; and the caution', () => {
     const all = texts(p);
     expect(all).toEqual(expect.arrayContaining(['tests.csv', '/tmp/tests.csv', '2026-01-05', '2026-02-03', `Leeway ${VERSION}`, 'Invented for tests (2026-01)']));
     const caution = p.cells.filter((c) => c.role === 'caution').map((c) => (c.content.kind === 'text' ? c.content.text : '')).join(' ');

@@ -1,7 +1,7 @@
 /**
  * The task pane's Excel writer against office-addin-mock: what is written where, nothing over
  * non-empty cells without confirmation, formula-looking text kept as text, and the number of
- * context.sync() calls the same for 10 and 1,000 rows (SPEC.md section 6: one batch per fill).
+ * context.sync() calls the same for 10 and 1,000 rows (one batch per fill).
  */
 
 // office-addin-mock reads only the OfficeApp names from office-addin-manifest, whose ESM
