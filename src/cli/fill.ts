@@ -176,5 +176,6 @@ function refuse(problems: readonly { where: string; message: string }[], io: Io,
 function summary(out: string, plan: FillPlan): string {
   const n = plan.rows.length;
   const what = plan.mode === 'live' ? 'live LEEWAY formulas' : 'values';
-  return `wrote ${out}: sheet "${plan.sheetName}", ${n} analyte${n === 1 ? '' : 's'}, ${plan.cells.length} cells, ${what} at the ${plan.provenance.tier} tier, z ${plan.provenance.z}`;
+  const cells = plan.cells.length + (plan.blockSheet?.cells.length ?? 0);
+  return `wrote ${out}: sheet "${plan.sheetName}", ${n} analyte${n === 1 ? '' : 's'}, ${cells} cells, ${what} at the ${plan.provenance.tier} tier, z ${plan.provenance.z}`;
 }

@@ -17,6 +17,7 @@ import * as path from 'path';
 import { createHash } from 'crypto';
 import { execFileSync } from 'child_process';
 import JSZip from 'jszip';
+import ExcelJS from 'exceljs';
 import { leeway, tempDir, strayFiles } from './support';
 import { TemplateWorkbook } from '../../src/cli/workbook/template';
 import { storedFormula } from '../../src/cli/xlsx';
@@ -158,6 +159,44 @@ describe.each(['lab.xlsx', 'lab-libreoffice.xlsx'])('a default fill of %s', (fil
     expect(texts).toEqual(expect.arrayContaining(['table.csv', path.resolve(TABLE), sha, '4', 'desirable', DATE, `Leeway ${VERSION}`]));
     expect(p.values.get('B4')).toBe(1.65);
     expect(texts.filter((t) => CAUTION.includes(t) && t.length > 20).join(' ')).toBe(CAUTION);
+  });
+});
+
+describe('a template made by exceljs (built here): notes, validation, a defined name, a merged title, a second sheet', () => {
+  test('every part but the sheet and the styles is identical byte for byte; the notes and validation are still there', async () => {
+    const dir = tempDir('exceljs');
+    const tpl = path.join(dir, 'template.xlsx');
+    const wb = new ExcelJS.Workbook();
+    const ws = wb.addWorksheet('Verification');
+    ws.getCell('A1').value = 'Method verification (invented)';
+    ws.mergeCells('A1:D1');
+    ws.getRow(3).values = ['Analyte', 'Specimen', 'CVI %', 'Allowable CV %'];
+    ws.getRow(4).values = ['Arvelin', 'Serum'];
+    ws.getCell('A3').note = 'Invented note on the header';
+    ws.getCell('B4').dataValidation = { type: 'list', allowBlank: true, formulae: ['"Serum,Urine"'] };
+    wb.definedNames.add('Verification!$A$4', 'FirstAnalyte');
+    wb.addWorksheet('Other').getCell('A1').value = 'untouched';
+    await wb.xlsx.writeFile(tpl);
+    const out = path.join(dir, 'filled.xlsx');
+    const r = await leeway('fill', '--table', TABLE, '--template', tpl, '--out', out, '--date', DATE);
+    expect(r.err).toEqual([]);
+    expect(r.code).toBe(0);
+    const before = await parts(tpl);
+    const after = await parts(out);
+    expect([...after.keys()].sort()).toEqual([...before.keys()].sort());
+    const changed = [...before.keys()].filter((k) => !before.get(k)!.equals(after.get(k)!)).sort();
+    expect(changed).toEqual(['xl/styles.xml', 'xl/worksheets/sheet1.xml']);
+    expect([...before.keys()].some((k) => k.startsWith('xl/comments'))).toBe(true);
+    const back = new ExcelJS.Workbook();
+    await back.xlsx.readFile(out);
+    const v = back.getWorksheet('Verification')!;
+    expect(v.getCell('C4').value).toBe(5.7);
+    expect(v.getCell('D4').value).toBe(evaluate('SPEC.CV', [5.7, 'desirable'])[0][0]);
+    expect(v.getCell('D4').numFmt).toBe('0.00');
+    expect(v.getCell('B4').dataValidation).toMatchObject({ type: 'list', formulae: ['"Serum,Urine"'] });
+    expect(v.getCell('A3').note).toBe('Invented note on the header');
+    // The title, wrapped to the four columns' width (4 × 8.43 characters).
+    expect(`${v.getCell('A6').value} ${v.getCell('A7').value}`).toBe('Leeway — analytical performance specifications');
   });
 });
 

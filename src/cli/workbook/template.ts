@@ -52,6 +52,7 @@ export function parsePrintArea(text: string): CellRange[] {
 
 export class TemplateWorkbook {
   private readonly read = new Map<string, { xml: string; sheet: SheetRead }>();
+  private readonly notes: string[] = [];
   private constructor(readonly pkg: WorkbookPackage) {}
 
   static async open(bytes: Uint8Array): Promise<TemplateWorkbook> {
@@ -120,19 +121,24 @@ export class TemplateWorkbook {
   async fill(entry: SheetEntry, plan: FillPlan): Promise<{ bytes: Buffer; changed: string[]; notes: string[] }> {
     if (!plan.writable) throw new Error('the plan is not writable');
     const { xml, sheet } = await this.load(entry);
-    const notes: string[] = [];
-    const stylesXml = this.pkg.stylesPath ? await this.pkg.text(this.pkg.stylesPath) : undefined;
-    const styles = new StyleBook(stylesXml);
-    if (styles.missing && plan.cells.some((c) => c.format)) notes.push('the workbook has no styles part: derived values were written without a number format');
-    const edits = plan.cells.map((c) => ({ row: c.row, col: c.col, content: c.content, ...(c.format ? { format: c.format } : {}) }));
-    const edited = editSheet(xml, edits, styles, sheet.columnStyles, sheet.formulaCells);
-    this.pkg.put(entry.path, edited.xml);
-    if (edited.replacedFormulas.length) await this.dropCalcChain();
-    if (plan.blockSheet) await this.addBlockSheet(plan, styles);
-    if (styles.changed && this.pkg.stylesPath) this.pkg.put(this.pkg.stylesPath, styles.toXml());
-    const changed = this.pkg.changedParts();
+    const where = { part: this.pkg.stylesPath ?? entry.path };
+    const changed = await wrapXml(where, async () => {
+      const stylesXml = this.pkg.stylesPath ? await this.pkg.text(this.pkg.stylesPath) : undefined;
+      const styles = new StyleBook(stylesXml);
+      if (styles.missing && plan.cells.some((c) => c.format)) this.notes.push('the workbook has no styles part: derived values were written without a number format');
+      where.part = entry.path;
+      const edits = plan.cells.map((c) => ({ row: c.row, col: c.col, content: c.content, ...(c.format ? { format: c.format } : {}) }));
+      const edited = editSheet(xml, edits, styles, sheet.columnStyles, sheet.formulaCells);
+      this.pkg.put(entry.path, edited.xml);
+      where.part = this.pkg.workbookRelsPath;
+      if (edited.replacedFormulas.length) await this.dropCalcChain();
+      where.part = this.pkg.workbookPath;
+      if (plan.blockSheet) await this.addBlockSheet(plan, styles);
+      if (styles.changed && this.pkg.stylesPath) this.pkg.put(this.pkg.stylesPath, styles.toXml());
+      return this.pkg.changedParts();
+    });
     for (const part of changed) checkWellFormed((await this.pkg.text(part)) ?? '', part);
-    return { bytes: await this.pkg.bytes(), changed, notes };
+    return { bytes: await this.pkg.bytes(), changed, notes: this.notes };
   }
 
   private async dropCalcChain(): Promise<void> {
