@@ -48,6 +48,8 @@ export interface SheetEntry {
   /** The part's path, or '' when the relationship is missing. */
   readonly path: string;
   readonly kind: 'worksheet' | 'chartsheet' | 'dialogsheet' | 'macrosheet' | 'other';
+  /** True for a sheet the workbook hides (state hidden or veryHidden). */
+  readonly hidden: boolean;
 }
 
 export interface DefinedName {
@@ -236,7 +238,8 @@ export class WorkbookPackage {
           const rel = rels.find((r) => r.id === rid);
           const type = rel ? rel.type.slice(rel.type.lastIndexOf('/') + 1) : '';
           const kind = (['worksheet', 'chartsheet', 'dialogsheet', 'macrosheet'] as const).find((k) => k === type || (k === 'macrosheet' && type === 'xlMacrosheet')) ?? 'other';
-          sheets.push({ name: attr(t, 'name') ?? '', sheetId: Number(attr(t, 'sheetId') ?? 0), rid, index: sheets.length, path: rel?.path ?? '', kind });
+          const state = attr(t, 'state');
+          sheets.push({ name: attr(t, 'name') ?? '', sheetId: Number(attr(t, 'sheetId') ?? 0), rid, index: sheets.length, path: rel?.path ?? '', kind, hidden: state === 'hidden' || state === 'veryHidden' });
         } else if (name === 'definedName') {
           if (t.kind === 'open') inName = t;
           else if (t.kind === 'close' && inName) {

@@ -63,12 +63,13 @@ export class TemplateWorkbook {
     return this.pkg.sheets;
   }
 
-  /** The sheet to fill: the one named (case-insensitive, as spreadsheets compare names), or the first worksheet. */
+  /** The sheet to fill: the one named (case-insensitive, as spreadsheets compare names), or the first worksheet the workbook shows. */
   pick(name: string | undefined, label: string): SheetEntry {
     const all = this.pkg.sheets;
     const list = all.map((s) => `"${s.name}"`).join(', ');
     if (name === undefined) {
-      const first = all.find((s) => s.kind === 'worksheet' && s.path && this.pkg.has(s.path));
+      const usable = all.filter((s) => s.kind === 'worksheet' && s.path && this.pkg.has(s.path));
+      const first = usable.find((s) => !s.hidden) ?? usable[0];
       if (!first) throw new WorkbookError(`the template ${label} has no worksheet${all.length ? ` (it has ${list})` : ''}`);
       return first;
     }
