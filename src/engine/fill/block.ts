@@ -73,8 +73,12 @@ export function titleText(demo: boolean): string {
   return demo ? `${TITLE} — DEMO` : TITLE;
 }
 
-/** Label in `at.col`, value in the next column; the tier and z cells in that value column. */
-export function besideBlock(at: CellRef, b: BlockText, tierPrefix = ''): PlacedBlock {
+/**
+ * Label in `at.col`, value in the next column; the tier and z cells in that value column. With
+ * `wrap`, a value longer than `wrap` characters continues on the rows below (a provenance sheet
+ * whose two columns print on one page); without, a value is one cell.
+ */
+export function besideBlock(at: CellRef, b: BlockText, tierPrefix = '', wrap?: number): PlacedBlock {
   const cells: BlockCell[] = [];
   const labelCol = at.col;
   const valueCol = at.col + 1;
@@ -82,11 +86,15 @@ export function besideBlock(at: CellRef, b: BlockText, tierPrefix = ''): PlacedB
   const put = (row: number, col: number, content: CellContent, role: CellRole, note?: string): void => {
     cells.push(note ? { row, col, content, role, note } : { row, col, content, role });
   };
+  const value = (t: string, role: CellRole): void => {
+    const lines = wrap === undefined ? [t] : wrapText(t, wrap, true);
+    for (const line of lines) put(r++, valueCol, text(line), role);
+  };
   put(r++, labelCol, text(titleText(b.demo)), 'title');
   if (b.demo) put(r++, labelCol, text(DEMO_MARKER), 'demo');
   if (b.documents) {
     put(r, labelCol, text('Documents'), 'label');
-    put(r++, valueCol, text(b.documents), 'provenance');
+    value(b.documents, 'provenance');
   }
   const tier = { row: r, col: valueCol };
   put(r, labelCol, text(TIER_CELL_LABEL), 'label');
@@ -94,17 +102,18 @@ export function besideBlock(at: CellRef, b: BlockText, tierPrefix = ''): PlacedB
   const z = { row: r, col: valueCol };
   put(r, labelCol, text(Z_CELL_LABEL), 'label');
   put(r++, valueCol, { kind: 'number', value: b.z }, 'z', Z_NOTE);
-  for (const [label, value] of b.pairs) {
+  for (const [label, v] of b.pairs) {
     put(r, labelCol, text(label), 'label');
-    if (value !== '') put(r, valueCol, text(value), 'provenance');
-    r++;
+    if (v !== '') value(v, 'provenance');
+    else r++;
   }
-  for (const [label, value] of b.formulas(tierPrefix + a1(tier, true), tierPrefix + a1(z, true))) {
-    put(r, labelCol, text(label), 'label');
-    put(r++, valueCol, text(value), 'provenance');
+  for (const [label, v] of b.formulas(tierPrefix + a1(tier, true), tierPrefix + a1(z, true))) {
+    // In narrow columns the column's name goes with its formula, so the label column stays short.
+    put(r, labelCol, text(wrap === undefined ? label : 'Formula'), 'label');
+    value(wrap === undefined ? v : `${label}: ${v}`, 'provenance');
   }
   put(r, labelCol, text('Caution'), 'label');
-  for (const line of wrapText(CAUTION, CAUTION_WIDTH)) put(r++, valueCol, text(line), 'caution');
+  for (const line of wrapText(CAUTION, wrap ?? CAUTION_WIDTH)) put(r++, valueCol, text(line), 'caution');
   return { cells, tier, z, bottom: r - 1, right: valueCol };
 }
 

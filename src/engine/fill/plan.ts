@@ -62,6 +62,9 @@ export { TITLE, TIER_CELL_LABEL, Z_CELL_LABEL };
 
 /** The name of the sheet a template fill adds for its provenance when the rows below the table are taken. */
 export const PROVENANCE_SHEET = 'Leeway provenance';
+/** Widths in characters of that sheet's label and value columns. */
+const PROVENANCE_LABEL_WIDTH = 18;
+const PROVENANCE_VALUE_WIDTH = 40;
 
 /** New-sheet column order: inputs and results first; the long text columns (source, note) last, where their text can run on. */
 const NEW_SHEET_ORDER: readonly FillField[] = ['analyte', 'specimen', 'unit', 'cvi', 'cvg', 'tier', 'spec_cv', 'spec_bias', 'spec_total', 'spec_mu'];
@@ -672,8 +675,9 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
       const name = uniqueSheetName(PROVENANCE_SHEET, s.sheetNames ?? [s.name]);
       tierPrefix = sheetPrefix(name);
       const documents = `sheet "${s.name}", ${tableRange} (header row ${headerRow}): its formulas read the tier and z cells below`;
-      block = besideBlock({ row: 1, col: 1 }, blockText(req, c, derivedCols, firstRow, letters, documents, `sheet "${s.name}", `), tierPrefix);
-      blockSheet = { name, cells: toPlanned(block.cells), columnWidths: { 1: 24, 2: 100 } };
+      // Two columns that print on one portrait page (58 characters in all), long values wrapped.
+      block = besideBlock({ row: 1, col: 1 }, blockText(req, c, derivedCols, firstRow, letters, documents, `sheet "${s.name}", `), tierPrefix, PROVENANCE_VALUE_WIDTH - 2);
+      blockSheet = { name, cells: toPlanned(block.cells), columnWidths: { 1: PROVENANCE_LABEL_WIDTH, 2: PROVENANCE_VALUE_WIDTH } };
       provenanceAt = `the sheet "${name}" (the rows below the table are not empty)`;
     }
   }

@@ -294,12 +294,12 @@ describe('where the provenance goes', () => {
     const s = sheet({ A1: 'Analyte', B1: 'CVI %', C1: 'CVG %', D1: 'Allowable CV %', A2: 'Sodium', A6: 'Reviewed by:' }, { sheetNames: ['Verification', 'Leeway provenance'] });
     const p = plan([row('Sodium', '', 0.5, 0.7)], { sheet: s }, { mode: 'live' });
     expect(p.blockSheet?.name).toBe(`${PROVENANCE_SHEET} (2)`);
-    // Title, the line that says what it documents, then the tier cell.
-    expect(p.tierCell).toBe("'Leeway provenance (2)'!$B$3");
-    expect(cell(p, 'D2')!.content).toMatchObject({ kind: 'formula', formula: "=LEEWAY.SPEC.CV(B2,'Leeway provenance (2)'!$B$3)" });
+    // Title, the lines that say what it documents (wrapped to the value column), then the tier cell.
+    const lines = p.blockSheet!.cells.filter((c) => c.col === 2 && c.row < 5).map((c) => (c.content.kind === 'text' ? c.content.text : ''));
+    expect(lines.join(' ')).toBe('sheet "Verification", A1:D2 (header row 1): its formulas read the tier and z cells below');
+    expect(p.tierCell).toBe("'Leeway provenance (2)'!$B$5");
+    expect(cell(p, 'D2')!.content).toMatchObject({ kind: 'formula', formula: "=LEEWAY.SPEC.CV(B2,'Leeway provenance (2)'!$B$5)" });
     expect(p.cells.some((c) => c.row > 2)).toBe(false);
-    const documents = p.blockSheet!.cells.find((c) => c.address === 'B2')!.content;
-    expect(documents).toEqual({ kind: 'text', text: 'sheet "Verification", A1:D2 (header row 1): its formulas read the tier and z cells below' });
     expect(p.template.provenanceAt).toBe('the sheet "Leeway provenance (2)" (the rows below the table are not empty)');
   });
 
