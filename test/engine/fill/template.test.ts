@@ -10,6 +10,7 @@ import { planFill, findHeaderRow, formatTemplateReport, PROVENANCE_SHEET, CAUTIO
 import type { FillPlan, FillRequest, SheetCell, SheetSnapshot, TemplateTarget } from '../../../src/engine/fill';
 import type { VariationRow, VariationTable } from '../../../src/engine/table';
 import { evaluate } from '../../../src/registry';
+import { mulberry32 } from '../../support/prng';
 
 const row = (analyte: string, specimen: string, cvi: number, cvg: number | null, extra: Partial<VariationRow> = {}): VariationRow => ({
   analyte,
@@ -316,5 +317,57 @@ describe('a far stray cell', () => {
     const with_ = plan([row('Sodium', '', 0.5, 0.7)], { sheet: sheet({ ...values, ZZ200000: 'x' }) });
     const without = plan([row('Sodium', '', 0.5, 0.7)], { sheet: sheet(values) });
     expect(with_.cells).toEqual(without.cells);
+  });
+});
+
+describe('template plans, seeded random sheets (seed 20260204)', () => {
+  test('no cell is planned twice; none where the sheet holds something unless overwriting a listed conflict; none in a merge; appended rows and the block only in empty rows', () => {
+    const rand = mulberry32(20260204);
+    const pick = <T>(xs: readonly T[]): T => xs[Math.floor(rand() * xs.length)];
+    const names = ['Arvelin', 'Brontase', 'Calpidine', 'Dorvane', 'Elmicate', 'Ferrolin'];
+    let planned = 0;
+    let written = 0;
+    const specimens = ['', 'Serum', 'Urine'];
+    for (let k = 0; k < 200; k++) {
+      const headerRow = 1 + Math.floor(rand() * 8);
+      const values: Record<string, string | number> = { A1: 'Title of the sheet' };
+      const headers = ['Analyte', pick(['Specimen', 'Note']), 'CVI %', 'CVG %', pick(['Allowable total error %', 'Allowable CV %', 'Unit'])];
+      headers.forEach((h, j) => (values[`${String.fromCharCode(65 + j)}${headerRow}`] = h));
+      const n = Math.floor(rand() * 6);
+      for (let i = 0; i < n; i++) {
+        const r = headerRow + 1 + i;
+        values[`A${r}`] = pick(names);
+        if (headers[1] === 'Specimen' && rand() < 0.7) values[`B${r}`] = pick(specimens.slice(1));
+        if (rand() < 0.3) values[`${pick(['C', 'D', 'E'])}${r}`] = rand() < 0.5 ? 9 : 'typed';
+      }
+      if (rand() < 0.5) values[`A${headerRow + n + 1 + Math.floor(rand() * 4)}`] = '* a footnote';
+      if (rand() < 0.3) values.ZZ5000 = 'stray';
+      const merges = rand() < 0.5 ? [{ top: headerRow + 1, left: 3, bottom: headerRow + 1, right: 4 }] : [];
+      const s = sheet(values, { merges });
+      const rows = names.filter(() => rand() < 0.6).map((a) => row(a, pick(specimens), 1 + rand() * 10, rand() < 0.2 ? null : 1 + rand() * 10));
+      if (rows.length === 0) continue;
+      const overwrite = rand() < 0.5;
+      const r = planFill({ table: table(rows), tier: 'desirable', z: 1.65, mode: rand() < 0.5 ? 'live' : 'values', target: { kind: 'template', sheet: s, append: rand() < 0.5 }, overwrite, date: '2026-02-03' });
+      if (!r.ok) continue;
+      const p = r.plan;
+      planned++;
+      written += p.rows.length;
+      const index = new Map((s.sparse ?? []).map((c) => [`${c.row},${c.col}`, c.value]));
+      const conflicts = new Set(p.conflicts.map((c) => c.address));
+      const seen = new Set<string>();
+      for (const c of p.cells) {
+        if (seen.has(c.address)) throw new Error(`case ${k}: ${c.address} planned twice`);
+        seen.add(c.address);
+        if (index.has(`${c.row},${c.col}`) && !(overwrite && conflicts.has(c.address))) throw new Error(`case ${k}: ${c.address} holds something`);
+        if (merges.some((m) => c.row >= m.top && c.row <= m.bottom && c.col >= m.left && c.col <= m.right)) throw new Error(`case ${k}: ${c.address} is merged`);
+      }
+      const taken = new Set((s.sparse ?? []).map((c) => c.row));
+      for (const a of p.template.appended) if (taken.has(a.row)) throw new Error(`case ${k}: appended into row ${a.row}, which holds something`);
+      if (!p.blockSheet) for (const c of p.cells.filter((x) => ['title', 'label', 'tier', 'z', 'provenance', 'caution'].includes(x.role))) if (taken.has(c.row)) throw new Error(`case ${k}: block in row ${c.row}`);
+      if (!overwrite) expect(p.cells.some((c) => conflicts.has(c.address))).toBe(false);
+    }
+    // The cases exercise real plans, not only refusals.
+    expect(planned).toBeGreaterThan(120);
+    expect(written).toBeGreaterThan(150);
   });
 });
