@@ -10,6 +10,6 @@ require('esbuild').buildSync({
   target: 'node20',
   format: 'cjs',
   sourcemap: true,
-  external: ['exceljs', 'papaparse', 'decimal.js'],
+  external: ['exceljs', 'papaparse', 'decimal.js', 'jszip', 'saxes'],
   logLevel: 'warning',
 });

@@ -106,6 +106,24 @@ export async function writeWorkbookAtomically(wb: ExcelJS.Workbook, out: string,
   }
 }
 
+/**
+ * Writes bytes to a temporary file beside `out`, then renames it into place (also when `out` is
+ * the file the bytes were read from: it is replaced whole or not at all).
+ */
+export function writeBytesAtomically(bytes: Uint8Array, out: string, force: boolean): void {
+  checkOutput(out, force);
+  const abs = path.resolve(out);
+  const tmp = path.join(path.dirname(abs), `.${path.basename(abs)}.${process.pid}.${Date.now().toString(36)}.tmp`);
+  try {
+    fs.writeFileSync(tmp, bytes);
+    checkOutput(out, force);
+    fs.renameSync(tmp, abs);
+  } catch (e) {
+    fs.rmSync(tmp, { force: true });
+    throw e;
+  }
+}
+
 /** Today as YYYY-MM-DD in local time. */
 export function today(): string {
   const d = new Date();

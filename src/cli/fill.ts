@@ -1,33 +1,38 @@
 /**
  * `leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B]
- *   [--template X.xlsx [--sheet S] [--at A1]] [--overwrite] [--force] [--live]`
- * fills an .xlsx headless by the worksheet-filling rules, with the planner the task pane uses.
- * By default derived columns are values (full precision; rounding only in the number format) and
- * each derived column's worksheet formula is in its header's note; --live writes LEEWAY formulas
- * (stored as Excel stores add-in calls, see xlsx.ts) with their results cached.
+ *   [--template X.xlsx [--sheet S] [--at A1] [--append]] [--overwrite] [--force] [--live]`
+ * fills an .xlsx headless with the planner the task pane uses. A new workbook is written with
+ * exceljs. A template is filled by editing its package directly (src/cli/workbook): only the
+ * cells the fill writes change, and every other part of the file keeps its bytes. By default
+ * derived columns are values (full precision; rounding only in the number format); --live writes
+ * LEEWAY formulas (stored as Excel stores add-in calls, see xlsx.ts) with their results cached.
  */
+import { createHash } from 'crypto';
 import * as path from 'path';
-import type ExcelJS from 'exceljs';
 import { UsageError } from './call';
 import type { Io } from './main';
 import { one, readOptions } from './options';
-import { readBytes, checkRegularFile, checkOutput, writeWorkbookAtomically, today, newWorkbook } from './files';
+import { readBytes, checkOutput, writeWorkbookAtomically, writeBytesAtomically, today, newWorkbook } from './files';
 import { progressBar } from './progress';
-import { printSetup, readSnapshot, writePlan } from './xlsx';
+import { printSetup, writePlan } from './xlsx';
+import { TemplateWorkbook } from './workbook/template';
+import { WorkbookError } from './workbook/package';
 import { parseTableBytes, acceptImport, formatProblem, formatReport } from '../engine/table';
 import type { HeaderMapping, Field } from '../engine/table';
 import { FIELDS } from '../engine/table';
-import { planFill, selectRows, parseA1, a1, formatConflicts, MAX_COLUMNS, MAX_ROWS } from '../engine/fill';
+import { planFill, selectRows, parseA1, a1, formatTemplateReport, MAX_COLUMNS, MAX_ROWS } from '../engine/fill';
 import type { FillMode, FillPlan, FillRequest } from '../engine/fill';
 import { readTier } from '../engine/tiers';
 import { LeewayError } from '../engine/errors';
 import { Z_TOTAL_ERROR } from '../engine/coverage';
 
 export const FILL_USAGE = `  leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B]
-              [--template X.xlsx [--sheet S] [--at A1]] [--overwrite] [--force] [--live]
-              [--date YYYY-MM-DD] [--decimals N] [--map HEADER=FIELD]
+              [--template X.xlsx [--sheet S] [--at A1] [--append]] [--overwrite] [--force]
+              [--live] [--date YYYY-MM-DD] [--decimals N] [--map HEADER=FIELD]
                                    fill a workbook from a variation table (values by default;
-                                   --live writes LEEWAY formulas for the add-in)`;
+                                   --live writes LEEWAY formulas for the add-in); a template gets
+                                   only its empty target cells written (--overwrite replaces the
+                                   others) and its other analytes only with --append`;
 
 const DEFAULT_SHEET = 'Specifications';
 
@@ -49,7 +54,7 @@ export function readMappings(list: readonly string[] | undefined, command: strin
 export async function fillCommand(args: string[], io: Io): Promise<number> {
   const o = readOptions('fill', args, {
     values: ['table', 'out', 'tier', 'z', 'analytes', 'template', 'sheet', 'at', 'date', 'decimals', 'map'],
-    flags: ['overwrite', 'force', 'live'],
+    flags: ['overwrite', 'force', 'live', 'append'],
     repeatable: ['map', 'analytes'],
   });
   if (o.positional.length) throw new UsageError(`fill: unexpected argument ${o.positional[0]} (options are --table, --out, …)`);
@@ -78,6 +83,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   const sheetName = one(o, 'sheet');
   const atText = one(o, 'at');
   if (atText !== undefined && !template) throw new UsageError('fill: --at needs --template (a new workbook is always filled from A1)');
+  if (o.flags.has('append') && !template) throw new UsageError('fill: --append needs --template (a new workbook gets every analyte)');
   const at = atText === undefined ? undefined : parseA1(atText);
   if (atText !== undefined && !at) throw new UsageError(`fill: --at ${atText} is not a cell inside a sheet (A1 to XFD${MAX_ROWS}, at most ${MAX_COLUMNS} columns)`);
   const mode: FillMode = o.flags.has('live') ? 'live' : 'values';
@@ -86,7 +92,9 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   // Refuse an existing output before any work.
   checkOutput(out, force);
 
-  const imported = parseTableBytes(readBytes(tablePath, 'table'), { name: path.basename(tablePath), origin: path.resolve(tablePath), mapping: readMappings(o.values.get('map'), 'fill') });
+  const bytes = readBytes(tablePath, 'table');
+  const tableSha256 = createHash('sha256').update(bytes).digest('hex');
+  const imported = parseTableBytes(bytes, { name: path.basename(tablePath), origin: path.resolve(tablePath), mapping: readMappings(o.values.get('map'), 'fill') });
   if (!imported.ok) {
     for (const line of formatReport(imported)) io.err(line);
     io.err(`leeway fill: the table ${tablePath} has errors: nothing was written (see leeway check)`);
@@ -100,60 +108,76 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   if (selection.unknown.length) {
     throw new Error(`the table has no analyte ${selection.unknown.map((n) => `"${n}"`).join(', ')}: nothing was written (it lists ${table.rows.slice(0, 8).map((r) => r.analyte).join(', ')}${table.rows.length > 8 ? ', …' : ''})`);
   }
+  const base = { table, rows: selection.rows, tier, z, mode, overwrite: o.flags.has('overwrite'), date, decimals, tableSha256 };
 
-  const wb = newWorkbook();
-  let target: FillRequest['target'];
-  let ws: ExcelJS.Worksheet;
-  if (template) {
-    checkRegularFile(template, 'template');
-    try {
-      await wb.xlsx.readFile(template);
-    } catch (e) {
-      throw new Error(`cannot read the template ${template}: ${(e as Error).message} (is it an .xlsx workbook?)`, { cause: e });
-    }
-    const found = sheetName === undefined ? wb.worksheets[0] : wb.getWorksheet(sheetName);
-    if (!found) {
-      const all = wb.worksheets.map((s) => `"${s.name}"`).join(', ');
-      throw new Error(sheetName === undefined ? `the template ${template} has no sheets` : `the template ${template} has no sheet "${sheetName}" (it has ${all})`);
-    }
-    ws = found;
-    const snapshot = readSnapshot(ws);
-    const lastRow = snapshot.cells.length;
-    const lastCol = snapshot.cells.reduce((m, r) => Math.max(m, r.length), 0);
-    if (at && (at.row > lastRow || at.col > lastCol)) {
-      throw new UsageError(`fill: --at ${atText} is outside the used part of sheet "${ws.name}" (${lastRow && lastCol ? `A1:${a1({ row: lastRow, col: lastCol })}` : 'the sheet is empty'}): point it at the first cell of the template's header row`);
-    }
-    target = { kind: 'template', sheet: snapshot, headerAt: at };
-  } else {
-    ws = wb.addWorksheet(sheetName ?? DEFAULT_SHEET);
-    target = { kind: 'new-sheet', sheetName: ws.name };
+  if (!template) {
+    const wb = newWorkbook();
+    const ws = wb.addWorksheet(sheetName ?? DEFAULT_SHEET);
+    const planned = planFill({ ...base, target: { kind: 'new-sheet', sheetName: ws.name } });
+    if (!planned.ok) return refuse(planned.problems, io);
+    const bar = progressBar('filling');
+    writePlan(ws, planned.plan, (d, t) => bar.update(d, t));
+    printSetup(ws);
+    bar.done();
+    await writeWorkbookAtomically(wb, out, force);
+    io.out(summary(out, planned.plan));
+    return 0;
   }
 
-  const planned = planFill({ table, rows: selection.rows, tier, z, mode, target, overwrite: o.flags.has('overwrite'), date, decimals });
+  const templateBytes = readBytes(template, 'template');
+  let wb: TemplateWorkbook;
+  try {
+    wb = await TemplateWorkbook.open(templateBytes);
+  } catch (e) {
+    if (e instanceof WorkbookError) throw new Error(`cannot read the template ${template}: ${e.message}`, { cause: e });
+    throw e;
+  }
+  const kind = wb.pkg.kind;
+  if ((kind === 'xlsm' || kind === 'xltm' || kind === 'xltx') && !out.toLowerCase().endsWith(`.${kind}`)) {
+    throw new UsageError(`fill: the template ${template} is ${kind === 'xltx' ? 'an Excel template' : 'a macro-enabled workbook'} (.${kind}): write it to a .${kind} file (--out NAME.${kind}), or a spreadsheet program will refuse to open it`);
+  }
+  let snapshot;
+  let entry;
+  try {
+    entry = wb.pick(sheetName, template);
+    snapshot = await wb.snapshot(entry);
+  } catch (e) {
+    if (e instanceof WorkbookError) throw new Error(e.message.startsWith('the template') ? e.message : `cannot read the template ${template}: ${e.message}`, { cause: e });
+    throw e;
+  }
+  const lastRow = snapshot.sparse!.reduce((m, c) => Math.max(m, c.row), 0);
+  const lastCol = snapshot.sparse!.reduce((m, c) => Math.max(m, c.col), 0);
+  if (at && (at.row > lastRow || at.col > lastCol)) {
+    throw new UsageError(`fill: --at ${atText} is outside the used part of sheet "${entry.name}" (${lastRow && lastCol ? `A1:${a1({ row: lastRow, col: lastCol })}` : 'the sheet is empty'}): point it at the first cell of the template's header row`);
+  }
+  const planned = planFill({ ...base, target: { kind: 'template', sheet: snapshot, headerAt: at, append: o.flags.has('append') } });
   if (!planned.ok) {
-    for (const p of planned.problems) io.err(`${p.where ? p.where + ': ' : ''}${p.message}`);
-    io.err('leeway fill: nothing was written');
-    return 1;
+    const hint = planned.problems.some((p) => p.code === 'no-header') ? `point at the first cell of the header row with --at CELL (for example --at A6)${sheetName === undefined ? ', and at another sheet with --sheet NAME' : ''}` : undefined;
+    return refuse(planned.problems, io, hint);
   }
   const plan = planned.plan;
-  if (!plan.writable) {
-    io.err(`leeway fill: ${plan.conflicts.length} target cell${plan.conflicts.length === 1 ? '' : 's'} of sheet "${plan.sheetName}" already hold something:`);
-    for (const line of formatConflicts(plan)) io.err(`  ${line}`);
-    io.err('nothing was written; add --overwrite to replace these cells');
-    return 1;
-  }
   const bar = progressBar('filling');
-  writePlan(ws, plan, (d, t) => bar.update(d, t));
-  if (target.kind === 'new-sheet') printSetup(ws);
+  bar.update(0, 1);
+  const filled = await wb.fill(entry, plan);
   bar.done();
-  await writeWorkbookAtomically(wb, out, force);
+  writeBytesAtomically(filled.bytes, out, force);
   io.out(summary(out, plan));
-  if (plan.overwrite && plan.conflicts.length) io.out(`overwrote ${plan.conflicts.length} cell${plan.conflicts.length === 1 ? '' : 's'}: ${plan.conflicts.map((c) => c.address).join(', ')}`);
+  const hints = { overwrite: 'add --overwrite to replace them', append: 'add --append to add them in empty rows below the table', pick: 'pick one with --analytes "NAME (SPECIMEN)"' };
+  for (const line of formatTemplateReport(plan, hints)) io.out(line);
+  for (const note of filled.notes) io.out(note);
   return 0;
+}
+
+function refuse(problems: readonly { where: string; message: string }[], io: Io, hint?: string): number {
+  for (const p of problems) io.err(`${p.where ? p.where + ': ' : ''}${p.message}`);
+  if (hint) io.err(hint);
+  io.err('leeway fill: nothing was written');
+  return 1;
 }
 
 function summary(out: string, plan: FillPlan): string {
   const n = plan.rows.length;
   const what = plan.mode === 'live' ? 'live LEEWAY formulas' : 'values';
-  return `wrote ${out}: sheet "${plan.sheetName}", ${n} analyte${n === 1 ? '' : 's'}, ${plan.cells.length} cells, ${what} at the ${plan.provenance.tier} tier, z ${plan.provenance.z}`;
+  const cells = plan.cells.length + (plan.blockSheet?.cells.length ?? 0);
+  return `wrote ${out}: sheet "${plan.sheetName}", ${n} analyte${n === 1 ? '' : 's'}, ${cells} cells, ${what} at the ${plan.provenance.tier} tier, z ${plan.provenance.z}`;
 }

@@ -1,7 +1,8 @@
 /**
- * The .xlsx writer (exceljs) for `leeway fill` and `leeway demo`: it executes a FillPlan on a
- * worksheet, and reads an existing sheet back as the SheetSnapshot the planner checks for
- * conflicts. Same plan, same layout and same safety rules as the task pane's Excel writer.
+ * The .xlsx writer (exceljs) for new workbooks of `leeway fill` and `leeway demo`: it executes a
+ * FillPlan on a worksheet. Same plan, same layout and same safety rules as the task pane's Excel
+ * writer. Templates are filled by editing their package directly (src/cli/workbook), which keeps
+ * every part of the lab's file that a fill does not need to change.
  *
  * How add-in function calls are stored in the file (live mode). Office's maintainers said in
  * public issue threads that Excel saves a JavaScript custom-function call with the prefix
@@ -14,7 +15,7 @@
  * full recalculation on load, so a reader without the add-in sees the values.
  */
 import type ExcelJS from 'exceljs';
-import type { CellContent, CellResult, ExistingCell, FillPlan, PlannedCell, SheetSnapshot } from '../engine/fill';
+import type { CellContent, CellResult, FillPlan, PlannedCell } from '../engine/fill';
 import { NAMESPACE } from '../registry';
 
 /** The name prefix Excel uses in files for JavaScript custom functions (see the file comment). */
@@ -122,42 +123,6 @@ export function headerHeight(cells: ReadonlyArray<readonly [string, number]>): n
     lines = Math.max(lines, n);
   }
   return 15 * Math.min(lines, 4);
-}
-
-function existing(v: ExcelJS.CellValue): ExistingCell {
-  if (v === null || v === undefined || v === '') return null;
-  if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v;
-  if (v instanceof Date) return v.toISOString();
-  if (typeof v === 'object') {
-    if ('formula' in v && typeof v.formula === 'string') return typedFormula(v.formula);
-    if ('sharedFormula' in v) return typedFormula(String(v.formula ?? v.sharedFormula));
-    if ('richText' in v) return v.richText.map((p) => p.text).join('');
-    if ('error' in v) return v.error;
-    if ('text' in v) return String(v.text);
-  }
-  return String(v);
-}
-
-/** The used part of a worksheet, from A1, as the planner's SheetSnapshot (formulas as "=…"). */
-export function readSnapshot(ws: ExcelJS.Worksheet): SheetSnapshot {
-  let lastRow = 0;
-  let lastCol = 0;
-  ws.eachRow({ includeEmpty: false }, (row, r) => {
-    row.eachCell({ includeEmpty: false }, (cell, c) => {
-      if (existing(cell.value) !== null) {
-        lastRow = Math.max(lastRow, r);
-        lastCol = Math.max(lastCol, c);
-      }
-    });
-  });
-  const cells: ExistingCell[][] = [];
-  for (let r = 1; r <= lastRow; r++) {
-    const row = ws.getRow(r);
-    const line: ExistingCell[] = [];
-    for (let c = 1; c <= lastCol; c++) line.push(existing(row.getCell(c).value));
-    cells.push(line);
-  }
-  return { name: ws.name, origin: { row: 1, col: 1 }, cells };
 }
 
 /** Page setup for readable printing: landscape, one page wide. */

@@ -135,19 +135,28 @@ export interface FoundTierCell {
 }
 
 /**
- * The tier cell of a sheet Leeway filled (in this session or an earlier one): the cell right of
- * the label "Tier (whole sheet)"; the z cell likewise. Null when the sheet has no such label.
+ * The tier cell of a sheet Leeway filled (in this session or an earlier one): the first non-empty
+ * cell right of the label "Tier (whole sheet)" in its row (the next cell on a new sheet; further
+ * right below a template's table, where the value clears the label); the z cell likewise. Null
+ * when the sheet has no such label.
  */
 export function findTierCell(sheet: ActiveSheet): FoundTierCell | null {
   const g = sheet.grid;
   let tier: FoundTierCell | null = null;
   let z: string | null = null;
+  const valueRight = (row: GridCell[], j: number): number => {
+    for (let k = j + 1; k < row.length; k++) if (row[k] !== null && row[k] !== '') return k;
+    return j + 1;
+  };
   g.values.forEach((row, i) => {
     row.forEach((v, j) => {
       if (typeof v !== 'string') return;
-      const addr = `$${columnLetters(g.firstColumn + j + 1)}$${g.firstRow + i}`;
-      if (!tier && isTierLabel(v.trim())) tier = { tierCell: addr, zCell: null, tier: text(row[j + 1]) };
-      if (!z && isZLabel(v.trim())) z = addr;
+      const at = (k: number): string => `$${columnLetters(g.firstColumn + k)}$${g.firstRow + i}`;
+      if (!tier && isTierLabel(v.trim())) {
+        const k = valueRight(row, j);
+        tier = { tierCell: at(k), zCell: null, tier: text(row[k]) };
+      }
+      if (!z && isZLabel(v.trim())) z = at(valueRight(row, j));
     });
   });
   if (!tier) return null;

@@ -150,6 +150,12 @@
         else if (ct.kind === 'text') m.set(k, { value: ct.text, formula: null });
         else m.set(k, { value: ct.error.error, formula: null });
       }
+      if (plan.blockSheet) {
+        const b = new Map();
+        for (const c of plan.blockSheet.cells) b.set(key(c.row, c.col), { value: c.content.kind === 'number' ? c.content.value : c.content.text, formula: null });
+        wb.sheets[plan.blockSheet.name] = b;
+        wb.order.push(plan.blockSheet.name);
+      }
       wb.active = plan.sheetName;
       return { sheet: plan.sheetName, cells: plan.cells.length };
     }),

@@ -8,7 +8,7 @@
 import * as path from 'path';
 import type { Page } from 'playwright-core';
 import { describeInBrowser, usePane } from './harness';
-import { importAndAccept, view, FIXTURES, setCells, setActive, lastCall, screenshot, statusText, log, checkAndFill } from './helpers';
+import { importAndAccept, view, FIXTURES, setCells, setActive, lastCall, screenshot, statusText, checkAndFill } from './helpers';
 import { planFill } from '../../src/engine/fill';
 import type { FillPlan } from '../../src/engine/fill';
 import { demoTable } from '../../src/engine/demo';
@@ -90,7 +90,9 @@ describeInBrowser('task pane: choosing and filling', () => {
     await context.close();
   });
 
-  test('into a template: the header match is shown and can be corrected; non-empty cells are listed and written only after confirmation', async () => {
+  // Behaviour changed: a non-empty target cell no longer holds the fill back; it is left as it is
+  // and listed, and ticking the confirmation overwrites it.
+  test('into a template: the header match is shown and can be corrected; non-empty cells are listed, left as they are, and overwritten only after confirmation', async () => {
     const { context, page } = await open();
     const demo = demoTable();
     const a = demo.rows[0];
@@ -112,7 +114,8 @@ describeInBrowser('task pane: choosing and filling', () => {
     const conflicts = await page.$$eval('#conflicts li', (els) => els.map((e) => e.getAttribute('data-address')));
     expect(conflicts).toEqual(['E3']);
     expect(await page.textContent('#conflicts li')).toContain('holds 99');
-    expect(await page.isDisabled('#run-fill')).toBe(true);
+    expect(await page.isDisabled('#run-fill')).toBe(false);
+    expect(await statusText(page)).toMatch(/1 non-empty cell will be left as it is/);
     await screenshot(page, 'pane-fill-template.png');
     await page.check('#confirm-overwrite');
     await page.waitForSelector('#run-fill:not([disabled])');
@@ -128,7 +131,7 @@ describeInBrowser('task pane: choosing and filling', () => {
     await context.close();
   });
 
-  test('without confirmation nothing is written over a non-empty cell', async () => {
+  test('without confirmation a non-empty cell is left as it is: the plan written leaves it out', async () => {
     const { context, page } = await open();
     const a = demoTable().rows[0];
     await setCells(page, 'Sheet1', 1, 1, [
@@ -139,9 +142,49 @@ describeInBrowser('task pane: choosing and filling', () => {
     await pickRadio(page, 'fill-where', 'template');
     await page.click('#check-fill');
     await page.waitForSelector('#conflicts li');
-    expect(await page.isDisabled('#run-fill')).toBe(true);
-    expect(await statusText(page)).toMatch(/non-empty cells would change/);
-    expect((await log(page)).some((e) => e.name === 'writeFill')).toBe(false);
+    expect(await statusText(page)).toMatch(/1 non-empty cell will be left as it is/);
+    await page.click('#run-fill');
+    await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Filled'));
+    const plan = await lastCall<FillPlan>(page, 'writeFill');
+    expect(plan.conflicts.map((c) => c.address)).toEqual(['C2']);
+    expect(plan.cells.find((c) => c.address === 'C2')).toBeUndefined();
+    await context.close();
+  });
+
+  test('the active sheet as a template: the header found below a title, the analytes on one side only listed, appending on request', async () => {
+    const { context, page } = await open();
+    const [a, b, c] = demoTable().rows;
+    await setCells(page, 'Sheet1', 1, 1, [
+      ['Method verification (invented)'],
+      ['Invented laboratory'],
+      [null],
+      ['Analyte', 'Specimen', 'CVI %', 'CVG %', 'Allowable total error %'],
+      [a.analyte, a.specimen],
+      ['Not in the table', 'Serum'],
+    ]);
+    await view(page, 'fill');
+    await page.click('#clear-shown');
+    for (const r of [a, b, c]) await page.check(`#analyte-list input[data-key="${encodeURIComponent(rowKey(r.analyte, r.specimen))}"]`);
+    await pickRadio(page, 'fill-where', 'template');
+    await page.click('#check-fill');
+    await page.waitForSelector('#template-report');
+    const report = await page.$$eval('#template-report li', (els) => els.map((e) => e.textContent ?? ''));
+    expect(report.join('\n')).toContain(`the template does not list 2 analytes of the table (not added; tick “Add the table’s other analytes” to add them): ${b.analyte} (${b.specimen}), ${c.analyte} (${c.specimen})`);
+    expect(report.join('\n')).toContain('the table has no row for 1 analyte of the template (left blank): Not in the table (Serum) (row 6)');
+    expect(await page.textContent('#fill-check .mapping summary')).toBe('Header match (row 4)');
+    await page.check('#fill-append');
+    await page.click('#check-fill');
+    await page.waitForSelector('#template-report');
+    await page.click('#run-fill');
+    await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Filled'));
+    const plan = await lastCall<FillPlan>(page, 'writeFill');
+    expect(plan.headerRow).toBe(4);
+    expect(plan.rows.map((r) => [r.analyte, r.row])).toEqual([
+      [a.analyte, 5],
+      [b.analyte, 7],
+      [c.analyte, 8],
+    ]);
+    expect(plan.template.appended.map((r) => r.row)).toEqual([7, 8]);
     await context.close();
   });
 
@@ -151,6 +194,8 @@ describeInBrowser('task pane: choosing and filling', () => {
     await setActive(page, { selection: { row: 10, col: 4, rows: 5, cols: 4 } });
     await view(page, 'fill');
     await pickRadio(page, 'fill-where', 'range');
+    // A header row with nothing below: the analytes go below it only when appending is asked for.
+    await page.check('#fill-append');
     await page.click('#check-fill');
     await page.waitForSelector('#run-fill:not([disabled])');
     await page.click('#run-fill');

@@ -5,6 +5,7 @@
  */
 import * as fs from 'fs';
 import * as path from 'path';
+import { createHash } from 'crypto';
 import ExcelJS from 'exceljs';
 import { leeway, tempDir, strayFiles, TABLES } from './support';
 import { planFill, CAUTION } from '../../src/engine/fill';
@@ -26,9 +27,12 @@ async function sheetOf(file: string, name?: string): Promise<ExcelJS.Worksheet> 
   return ws;
 }
 
+/** SHA-256 of the table file as read (FIPS 180-4, Node's crypto): the CLI records it in the provenance. */
+const GOOD_SHA256 = createHash('sha256').update(fs.readFileSync(GOOD)).digest('hex');
+
 function expectedPlan(mode: 'live' | 'values'): FillPlan {
   const table = acceptImport(parseTableText(fs.readFileSync(GOOD, 'utf8'), { name: 'good.csv', origin: path.resolve(GOOD) }));
-  const r = planFill({ table, tier: 'desirable', z: 1.65, mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE });
+  const r = planFill({ table, tier: 'desirable', z: 1.65, mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE, tableSha256: GOOD_SHA256 });
   if (!r.ok) throw new Error('plan failed');
   return r.plan;
 }
@@ -98,7 +102,7 @@ describe('leeway fill: round trip into a new workbook', () => {
     const noteText = typeof note === 'string' ? note : JSON.stringify(note);
     expect(noteText).toContain('=LEEWAY.SPEC.TOTAL(');
     const texts = textOf(ws);
-    expect(texts).toEqual(expect.arrayContaining(['good.csv', path.resolve(GOOD), DATE, `Leeway ${VERSION}`, 'desirable']));
+    expect(texts).toEqual(expect.arrayContaining(['good.csv', path.resolve(GOOD), GOOD_SHA256, '3', DATE, `Leeway ${VERSION}`, 'desirable']));
     expect(texts.filter((t) => CAUTION.includes(t) && t.length > 20).join(' ')).toBe(CAUTION);
     expect(strayFiles(dir, ['specs.xlsx'])).toEqual([]);
   });
@@ -110,7 +114,7 @@ describe('leeway fill: round trip into a new workbook', () => {
     expect(r.code).toBe(0);
     const ws = await sheetOf(out);
     const table = acceptImport(parseTableText(fs.readFileSync(GOOD, 'utf8'), { name: 'good.csv', origin: path.resolve(GOOD) }));
-    const pr = planFill({ table, tier: 'minimum', z: 2, mode: 'live', target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE });
+    const pr = planFill({ table, tier: 'minimum', z: 2, mode: 'live', target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE, tableSha256: GOOD_SHA256 });
     if (!pr.ok) throw new Error('plan failed');
     const plan = pr.plan;
     let formulas = 0;
@@ -175,20 +179,30 @@ describe('leeway fill into a template', () => {
     await wb.xlsx.writeFile(file);
   }
 
-  test('headers in another order, extra columns, pre-filled cells: refused without --overwrite with the conflicts listed; nothing written', async () => {
+  // Behaviour changed: a pre-filled target cell no longer stops the whole fill (it is left as it
+  // was and listed), and table analytes the template lacks are written only with --append, into
+  // empty rows below the template's table (no longer into C5, a row of the table with an empty
+  // analyte cell): so B5 is no longer a target, and the block moved below the table.
+  test('headers in another order, extra columns, pre-filled cells: the empty cells are written, the pre-filled ones left as they were and listed', async () => {
     const dir = tempDir('tpl');
     const tpl = path.join(dir, 'template.xlsx');
     await makeTemplate(tpl);
     const out = path.join(dir, 'filled.xlsx');
     const r = await leeway('fill', '--table', GOOD, '--out', out, '--template', tpl, '--sheet', 'Verification', '--at', 'A3', '--date', DATE);
-    expect(r.code).toBe(1);
-    const err = r.err.join('\n');
-    expect(err).toMatch(/2 target cells of sheet "Verification" already hold something/);
-    expect(err).toMatch(/D4 holds 99; the fill would write "18.1"/);
-    expect(err).toMatch(/B5 holds "typed by hand"; the fill would write "6\.9399/);
-    expect(err).toMatch(/--overwrite/);
-    expect(fs.existsSync(out)).toBe(false);
-    expect(strayFiles(dir, ['template.xlsx'])).toEqual([]);
+    expect(r.err).toEqual([]);
+    expect(r.code).toBe(0);
+    const text = r.out.join('\n');
+    expect(text).toMatch(/left 1 non-empty target cell as it was \(add --overwrite to replace them\)/);
+    expect(text).toMatch(/D4 holds 99; Leeway would write "18.1"/);
+    expect(text).toMatch(/the template does not list 2 analytes of the table \(not added; add --append .*\): Arvelin \(serum\), Calpidine \(plasma\)/);
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.readFile(out);
+    const ws = wb.getWorksheet('Verification')!;
+    expect(ws.getCell('D4').value).toBe(99);
+    expect(ws.getCell('B5').value).toBe('typed by hand');
+    // The derived cell of the row reads the sheet's own CVG (99).
+    expect(relClose(ws.getCell('B4').value as number, evaluate('SPEC.TOTAL', [12.4, 99, 'desirable', 1.65])[0][0] as number, 1e-15)).toBe(true);
+    expect(strayFiles(dir, ['template.xlsx', 'filled.xlsx'])).toEqual([]);
   });
 
   test('with --overwrite the listed cells are replaced; extra columns, identical cells and other sheets are left as they were', async () => {
@@ -196,10 +210,10 @@ describe('leeway fill into a template', () => {
     const tpl = path.join(dir, 'template.xlsx');
     await makeTemplate(tpl);
     const out = path.join(dir, 'filled.xlsx');
-    const r = await leeway('fill', '--table', GOOD, '--out', out, '--template', tpl, '--sheet', 'Verification', '--at', 'A3', '--date', DATE, '--overwrite');
+    const r = await leeway('fill', '--table', GOOD, '--out', out, '--template', tpl, '--sheet', 'Verification', '--at', 'A3', '--date', DATE, '--overwrite', '--append');
     expect(r.err).toEqual([]);
     expect(r.code).toBe(0);
-    expect(r.out[1]).toBe('overwrote 2 cells: D4, B5');
+    expect(r.out[1]).toBe('overwrote 1 cell: D4');
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.readFile(out);
     const ws = wb.getWorksheet('Verification')!;
@@ -207,15 +221,15 @@ describe('leeway fill into a template', () => {
     expect(ws.getCell('A5').value).toBe('kept');
     expect(ws.getCell('C4').value).toBe('Brontase');
     expect(ws.getCell('D4').value).toBe(18.1);
-    expect(ws.getCell('C5').value).toBe('Arvelin');
-    expect(ws.getCell('C6').value).toBe('Calpidine');
+    expect(ws.getCell('C6').value).toBe('Arvelin');
+    expect(ws.getCell('C7').value).toBe('Calpidine');
     const te = ws.getCell('B4').value as number;
     expect(relClose(te, evaluate('SPEC.TOTAL', [12.4, 18.1, 'desirable', 1.65])[0][0] as number, 1e-15)).toBe(true);
     expect(ws.getCell('A1').value).toBe('Method verification (template)');
     expect(wb.getWorksheet('Other')!.getCell('A1').value).toBe('untouched');
-    // The block: two columns right of the used range, level with the header row.
-    expect(ws.getCell('H3').value).toBe('Leeway — analytical performance specifications');
-    expect(ws.getCell('I4').value).toBe('desirable');
+    // The block: below the table (one blank row), in its first column; the tier value clear of its label.
+    expect(ws.getCell('A9').value).toBe('Leeway — analytical performance specifications');
+    expect(ws.getCell('D10').value).toBe('desirable');
   });
 
   test('a sheet that does not exist, and an --at outside the sheet, are refused', async () => {

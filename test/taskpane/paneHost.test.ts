@@ -71,7 +71,7 @@ describe('the Excel PaneHost', () => {
     const m = mockRun();
     const host = excelPaneHost(m.run, fakeIO([]));
     const t = await host.readTarget();
-    expect(t.snapshot).toEqual({ name: 'Template', origin: { row: 2, col: 1 }, cells: [['Analyte']] });
+    expect(t.snapshot).toEqual({ name: 'Template', origin: { row: 2, col: 1 }, cells: [['Analyte']], sheetNames: [] });
     expect(t.selection).toEqual({ row: 2, col: 1, rows: 1, cols: 4, address: 'Template!A2:D2' });
   });
 

@@ -2,7 +2,8 @@
  * Reading observed bias and CV from a worksheet (src/taskpane/sheetRows.ts) and picking analytes
  * (src/taskpane/analytes.ts).
  */
-import { readActiveRow, readAllRows } from '../../src/taskpane/sheetRows';
+import { readActiveRow, readAllRows, findTierCell } from '../../src/taskpane/sheetRows';
+import { planFill } from '../../src/engine/fill';
 import type { ActiveSheet } from '../../src/taskpane/host';
 import { filterRows, specimensOf, displayName, keyOf } from '../../src/taskpane/analytes';
 import { demoTable } from '../../src/engine/demo';
@@ -81,5 +82,36 @@ describe('picking analytes', () => {
   test('display names add the specimen in brackets', () => {
     expect(displayName({ analyte: 'A', specimen: 'serum' })).toBe('A (serum)');
     expect(displayName({ analyte: 'A', specimen: '' })).toBe('A');
+  });
+});
+
+describe('findTierCell: the tier and z cells of a sheet Leeway filled, found by their labels', () => {
+  /** A plan's cells laid on a grid from A1, as Excel's used range would give them back. */
+  function gridOf(cells: readonly { row: number; col: number; content: { kind: string; text?: string; value?: number } }[]): ActiveSheet {
+    const rows = Math.max(...cells.map((c) => c.row));
+    const cols = Math.max(...cells.map((c) => c.col));
+    const values: (string | number | null)[][] = Array.from({ length: rows }, () => Array.from({ length: cols }, () => ''));
+    for (const c of cells) values[c.row - 1][c.col - 1] = c.content.kind === 'number' ? (c.content.value as number) : (c.content.text ?? '');
+    return { activeRow: 1, grid: { sheet: 'S', address: 'S!A1', firstRow: 1, firstColumn: 1, values } };
+  }
+  const t = demoTable();
+
+  test('on a new sheet the value is the next cell; below a template’s table it is further right, where the label ends', () => {
+    const fresh = planFill({ table: t, tier: 'minimum', z: 1.65, mode: 'live', target: { kind: 'new-sheet', sheetName: 'S' }, date: '2026-02-03' });
+    const template = planFill({
+      table: t,
+      rows: t.rows.slice(0, 1),
+      tier: 'minimum',
+      z: 1.65,
+      mode: 'live',
+      target: { kind: 'template', sheet: { name: 'S', origin: { row: 1, col: 1 }, cells: [['Analyte', 'CVI %'], [t.rows[0].analyte, null]] } },
+      date: '2026-02-03',
+    });
+    for (const r of [fresh, template]) {
+      if (!r.ok) throw new Error('plan failed');
+      const found = findTierCell(gridOf(r.plan.cells as never));
+      expect(found).toEqual({ tierCell: r.plan.tierCell, zCell: r.plan.zCell, tier: 'minimum' });
+    }
+    if (template.ok) expect(template.plan.tierCell).toMatch(/^\$D\$/);
   });
 });

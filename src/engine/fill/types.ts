@@ -61,7 +61,10 @@ export interface PlannedCell {
   readonly note?: string;
 }
 
-/** A target cell that already holds something different from what the fill would write. */
+/**
+ * A target cell that already holds something different from what the fill would write. By
+ * default the fill leaves it as it is and lists it; confirmed overwriting replaces it.
+ */
 export interface Conflict {
   readonly address: string;
   readonly row: number;
@@ -72,14 +75,69 @@ export interface Conflict {
   readonly planned: string;
 }
 
+/**
+ * A target cell the fill never writes, even when overwriting is confirmed: it lies in a merged
+ * range (writing into it would write through the merge), or in a formula that spans other cells.
+ */
+export interface BlockedCell {
+  readonly address: string;
+  readonly row: number;
+  readonly col: number;
+  /** What the fill would have written, as the user would type it. */
+  readonly planned: string;
+  /** "merged B3:C3", "part of the array formula E2:E9", … */
+  readonly reason: string;
+}
+
+/** A rectangle of cells, 1-based and inclusive. */
+export interface CellRange {
+  readonly top: number;
+  readonly left: number;
+  readonly bottom: number;
+  readonly right: number;
+}
+
+/** A range of cells that must not be written (see BlockedCell), with the reason shown to the user. */
+export interface LockedRange {
+  readonly range: CellRange;
+  readonly reason: string;
+}
+
+/** One non-empty cell of a sheet. */
+export interface SheetCell {
+  readonly row: number;
+  readonly col: number;
+  readonly value: string | number | boolean;
+}
+
 /** A cell of a sheet as read before filling: a value, a formula as "=…", or null when empty. */
 export type ExistingCell = string | number | boolean | null;
 
-/** The used part of an existing sheet: cells[i][j] is the cell at (origin.row + i, origin.col + j). */
+/**
+ * What the planner knows of an existing sheet. The cells come as a dense rectangle (cells[i][j]
+ * is the cell at origin.row + i, origin.col + j; what Excel's used range gives the task pane),
+ * or as a sparse list of the non-empty cells (what a file reader gives: a far stray cell costs one
+ * entry), or both. Every other field is optional: absent means "none" or "not known".
+ */
 export interface SheetSnapshot {
   readonly name: string;
   readonly origin: CellRef;
   readonly cells: readonly (readonly ExistingCell[])[];
+  readonly sparse?: readonly SheetCell[];
+  /** Merged ranges of more than one cell. */
+  readonly merges?: readonly CellRange[];
+  /** Cells that must not be written (parts of array formulas, first cells of shared formulas, …). */
+  readonly locked?: readonly LockedRange[];
+  /** Column widths in characters, by column number, where the sheet sets them (0 for a hidden column). */
+  readonly columnWidths?: Readonly<Record<number, number>>;
+  /** The width of every other column, in characters; default 8.43 (the spreadsheet default). */
+  readonly defaultColumnWidth?: number;
+  /** The last row read: rows below it exist but were not read, so the planner treats them as not empty. */
+  readonly readThrough?: number;
+  /** The sheet's print area, when it has one. */
+  readonly printArea?: readonly CellRange[];
+  /** The names of every sheet of the workbook (to name a provenance sheet that is not taken). */
+  readonly sheetNames?: readonly string[];
 }
 
 export interface NewSheetTarget {
@@ -93,11 +151,16 @@ export type TemplateMapping = Readonly<Record<string, FillField | null>>;
 export interface TemplateTarget {
   readonly kind: 'template';
   readonly sheet: SheetSnapshot;
-  /** The first cell of the template's header row; default: the first non-empty row of the used range, from its first column. */
+  /** The first cell of the template's header row; default: the best header row of the first 30 rows (findHeaderRow). */
   readonly headerAt?: CellRef;
   readonly mapping?: TemplateMapping;
-  /** Where the block with the tier cell, z cell, provenance and caution goes; default: two columns right of the used range, level with the header. */
+  /**
+   * Where the block with the tier cell, z cell, provenance and caution goes. Default: directly
+   * below the filled table when the rows there are empty, else a sheet of its own.
+   */
   readonly blockAt?: CellRef;
+  /** Table rows the template does not list go into empty rows directly below the template's table (default: they are only reported). */
+  readonly append?: boolean;
 }
 
 export interface FillRequest {
@@ -120,6 +183,8 @@ export interface FillRequest {
   readonly decimals?: number;
   /** Program version for the provenance; default src/engine/version.ts. */
   readonly version?: string;
+  /** SHA-256 of the table file as read (hex), when the table came from a file. */
+  readonly tableSha256?: string;
 }
 
 /** One column the plan fills. */
@@ -143,6 +208,10 @@ export interface Provenance {
   readonly tableName: string;
   readonly tableOrigin: string;
   readonly tableImported: string;
+  /** SHA-256 of the table file (hex), or "" when not known. */
+  readonly tableSha256: string;
+  /** Rows of the table (all of them, not only those filled). */
+  readonly tableRows: number;
   readonly sources: readonly string[];
   readonly tier: Tier;
   readonly z: number;
@@ -152,26 +221,87 @@ export interface Provenance {
   readonly demo: boolean;
 }
 
+/** A table row, named as the user knows it. */
+export interface AnalyteName {
+  readonly analyte: string;
+  /** '' when the row has no specimen. */
+  readonly specimen: string;
+}
+
+/** A row of the template's table whose analyte no table row matches. */
+export interface TemplateOnlyRow extends AnalyteName {
+  readonly row: number;
+}
+
+/** A template row without a specimen column whose analyte the table lists for several specimens. */
+export interface AmbiguousRow {
+  readonly row: number;
+  readonly analyte: string;
+  readonly specimens: readonly string[];
+}
+
+/** What a template fill found when it matched the table against the template (all empty on a new sheet). */
+export interface TemplateReport {
+  /** How the header row was found. */
+  readonly header: 'given' | 'scanned';
+  /** The template's table: header row to its last data row (after appending), e.g. "A6:F12". */
+  readonly tableRange: string;
+  /** Table rows the template does not list (written only when appending was asked for: see appended and noRoom). */
+  readonly notInTemplate: readonly AnalyteName[];
+  /** Table rows that appending found no room for. */
+  readonly noRoom: readonly AnalyteName[];
+  /** Why there was no room, when noRoom is not empty. */
+  readonly noRoomReason: string;
+  /** Table rows written into empty rows below the template's table. */
+  readonly appended: readonly PlannedRow[];
+  /** Template rows whose analyte (and specimen) the table does not have. */
+  readonly missingFromTable: readonly TemplateOnlyRow[];
+  /** Template rows left blank because the match is ambiguous. */
+  readonly ambiguous: readonly AmbiguousRow[];
+  /** Rows further down the sheet that name a table analyte but lie below the table's end (not filled). */
+  readonly belowTable: readonly TemplateOnlyRow[];
+  /** Where the provenance went, in words ("below the table, A14:A33" or "the sheet \"Leeway provenance\""). */
+  readonly provenanceAt: string;
+  /** Things the user should know that change nothing (a print area that leaves out the provenance, say). */
+  readonly notes: readonly string[];
+}
+
+/** A sheet the fill adds for its provenance block (when there is no room below a template's table). */
+export interface BlockSheet {
+  readonly name: string;
+  readonly cells: readonly PlannedCell[];
+  readonly columnWidths: Readonly<Record<number, number>>;
+}
+
 export interface FillPlan {
   readonly sheetName: string;
   readonly target: 'new-sheet' | 'template';
   readonly mode: FillMode;
   /** Every cell to write, row by row. Cells that already hold exactly the planned content are left out. */
   readonly cells: readonly PlannedCell[];
-  /** "$B$3": the sheet's tier cell every derived formula points at. */
+  /** "$B$3": the tier cell every derived formula points at (on blockSheet when there is one). */
   readonly tierCell: string;
-  /** "$B$4": the z cell. */
+  /** "$B$4": the z cell (on blockSheet when there is one). */
   readonly zCell: string;
+  /** The provenance block's own sheet, when it does not fit on the filled sheet. */
+  readonly blockSheet?: BlockSheet;
   readonly headerRow: number;
   readonly columns: readonly PlannedColumn[];
   readonly rows: readonly PlannedRow[];
-  /** Non-empty target cells that the fill would change. */
+  /**
+   * Non-empty target cells that hold something else. Without overwrite they are left as they
+   * are (and are not in `cells`); with overwrite they are in `cells` and get replaced.
+   */
   readonly conflicts: readonly Conflict[];
+  /** Target cells the fill never writes (merged, parts of formulas spanning cells). */
+  readonly blocked: readonly BlockedCell[];
   /** Target cells left out because they already hold what the fill would write. */
   readonly unchanged: number;
   readonly overwrite: boolean;
-  /** False while there are conflicts whose overwriting the user has not confirmed: writers refuse such a plan. */
+  /** True for every plan planFill makes (conflicts are left out of `cells` unless overwriting is confirmed); writers refuse a plan where it is false. */
   readonly writable: boolean;
+  /** What matching the table against a template found (empty lists on a new sheet). */
+  readonly template: TemplateReport;
   /** Suggested widths in characters, by column number. */
   readonly columnWidths: Readonly<Record<number, number>>;
   readonly provenance: Provenance;
@@ -182,6 +312,8 @@ export interface PlanProblem {
   /** The cell or column concerned ("D5", "column H"), or "" for the request as a whole. */
   readonly where: string;
   readonly message: string;
+  /** "no-header": no header row was found; each front end says how to point at it (--at, or the selection). */
+  readonly code?: 'no-header';
 }
 
 export type PlanResult = { readonly ok: true; readonly plan: FillPlan } | { readonly ok: false; readonly problems: readonly PlanProblem[] };

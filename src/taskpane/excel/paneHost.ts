@@ -39,7 +39,16 @@ export function supportedNotes(): 'notes' | 'none' {
   }
 }
 
-export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: SheetIO = createSheetIO(run, { notes: supportedNotes() })): PaneHost {
+/** Merged areas (read so a fill never writes through a merge) need ExcelApi 1.13. */
+export function supportedLayout(): boolean {
+  try {
+    return typeof Office !== 'undefined' && Office.context?.requirements?.isSetSupported('ExcelApi', '1.13') === true;
+  } catch {
+    return false;
+  }
+}
+
+export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: SheetIO = createSheetIO(run, { notes: supportedNotes(), layout: supportedLayout() })): PaneHost {
   return {
     label: 'Excel',
     available: true,
@@ -56,7 +65,8 @@ export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: S
       guarded(async () => {
         const active = await run((c) => readActiveContext(c));
         const snapshot = await io.readUsed(active.sheet);
-        return { snapshot, selection: active.selection };
+        const sheetNames = await io.sheetNames();
+        return { snapshot: { ...snapshot, sheetNames }, selection: active.selection };
       }),
     writeFill: (plan) =>
       guarded(async () => {

@@ -3,7 +3,10 @@
  * loads what it needs in one sync (the target cells, to check that nothing changed since the
  * plan was made) and writes everything in one more: two syncs whatever the number of rows.
  * Writes are grouped into column runs (null entries leave a cell as it is), so the number of
- * range objects grows with the columns, not the rows. This file only executes a FillPlan; every decision is the planner's.
+ * range objects grows with the columns, not the rows. A template's provenance goes to a sheet of
+ * its own when the plan says so, in the same batch. Reading a template loads the used range's
+ * size first and then at most READ_CELL_LIMIT cells, so a stray value far away costs nothing.
+ * This file only executes a FillPlan; every decision is the planner's.
  */
 import type { CellContent, FillPlan, PlannedCell, SheetSnapshot, ExistingCell } from '../../engine/fill';
 import { a1Range, columnLetters, needsTextGuard } from '../../engine/fill';
@@ -54,7 +57,14 @@ export class FillWriteError extends Error {
 export interface SheetIOOptions {
   /** How header notes are attached: worksheet notes (ExcelApi 1.18), threaded comments (ExcelApi 1.10), or not at all. Default "notes". */
   readonly notes?: 'notes' | 'comments' | 'none';
+  /** readUsed also reads merged areas (ExcelApi 1.13) and the widths of the first columns. Default false. */
+  readonly layout?: boolean;
 }
+
+/** The most cells readUsed loads: a used range stretched by a far stray value is read only from its first rows. */
+export const READ_CELL_LIMIT = 1_000_000;
+/** Column widths read for placing the provenance block (the table's first columns). */
+const WIDTH_COLUMNS = 64;
 
 /** What to hand Excel's formula setter so the cell ends up holding exactly the planned content. */
 export function excelInput(c: CellContent): string | number {
@@ -140,7 +150,7 @@ export function assertWritable(plan: FillPlan): void {
   if (!plan.writable) {
     throw new FillWriteError('not-writable', `${plan.conflicts.length} target cell${plan.conflicts.length === 1 ? '' : 's'} already hold something (${plan.conflicts.slice(0, 5).map((c) => c.address).join(', ')}${plan.conflicts.length > 5 ? ', …' : ''}): confirm overwriting them, or choose another place`);
   }
-  if (plan.cells.length === 0) throw new FillWriteError('empty-plan', 'the plan has no cells to write');
+  if (plan.cells.length === 0 && !plan.blockSheet?.cells.length) throw new FillWriteError('empty-plan', 'the plan has no cells to write');
 }
 
 export function createSheetIO(run: ExcelRun, options: SheetIOOptions = {}): SheetIO {
@@ -150,13 +160,27 @@ export function createSheetIO(run: ExcelRun, options: SheetIOOptions = {}): Shee
       return run(async (context) => {
         const sheet = context.workbook.worksheets.getItem(sheetName);
         const range = address ? sheet.getRange(address) : sheet.getUsedRangeOrNullObject(true);
-        range.load(['isNullObject', 'formulas', 'rowIndex', 'columnIndex']);
+        range.load(['isNullObject', 'rowIndex', 'columnIndex', 'rowCount', 'columnCount']);
         await context.sync();
         if (range.isNullObject) return { name: sheetName, origin: { row: 1, col: 1 }, cells: [] };
+        // A used range far larger than any template (a stray value at ZZ200000) is read from its first rows only.
+        const rows = Math.min(range.rowCount, Math.max(1, Math.floor(READ_CELL_LIMIT / Math.max(1, range.columnCount))));
+        const part = rows < range.rowCount ? range.getResizedRange(rows - range.rowCount, 0) : range;
+        part.load('formulas');
+        const merged = options.layout ? part.getMergedAreasOrNullObject() : undefined;
+        merged?.load(['isNullObject', 'areas/items/rowIndex', 'areas/items/columnIndex', 'areas/items/rowCount', 'areas/items/columnCount']);
+        const widths = options.layout ? Array.from({ length: Math.min(WIDTH_COLUMNS, range.columnIndex + range.columnCount) }, (_, i) => sheet.getCell(0, i).format) : [];
+        for (const w of widths) w.load('columnWidth');
+        await context.sync();
+        const columnWidths: Record<number, number> = {};
+        widths.forEach((w, i) => (columnWidths[i + 1] = w.columnWidth / POINTS_PER_CHARACTER));
         return {
           name: sheetName,
           origin: { row: range.rowIndex + 1, col: range.columnIndex + 1 },
-          cells: (range.formulas as unknown[][]).map((r) => r.map(fromExcel)),
+          cells: (part.formulas as unknown[][]).map((r) => r.map(fromExcel)),
+          ...(merged && !merged.isNullObject ? { merges: merged.areas.items.map((a) => ({ top: a.rowIndex + 1, left: a.columnIndex + 1, bottom: a.rowIndex + a.rowCount, right: a.columnIndex + a.columnCount })) } : {}),
+          ...(widths.length ? { columnWidths } : {}),
+          ...(rows < range.rowCount ? { readThrough: range.rowIndex + rows } : {}),
         };
       });
     },
@@ -190,56 +214,63 @@ export function createSheetIO(run: ExcelRun, options: SheetIOOptions = {}): Shee
       return run(async (context) => {
         const sheet = plan.target === 'new-sheet' ? context.workbook.worksheets.add(plan.sheetName) : context.workbook.worksheets.getItem(plan.sheetName);
         // Sync 1: read the rectangle the plan covers, to find cells changed since planning.
-        const b = bounds(plan.cells);
-        const probe = sheet.getRange(a1Range({ row: b.top, col: b.left }, { row: b.bottom, col: b.right }));
-        probe.load('formulas');
-        await context.sync();
-        const now = probe.formulas as unknown[][];
         const confirmed = new Set(plan.overwrite ? plan.conflicts.map((c) => c.address) : []);
-        const changed: string[] = [];
-        for (const c of plan.cells) {
-          const v = fromExcel(now[c.row - b.top]?.[c.col - b.left]);
-          if (v !== null && !confirmed.has(c.address)) changed.push(c.address);
-        }
-        if (changed.length) {
-          throw new FillWriteError('changed', `cells changed since the fill was planned (${changed.slice(0, 5).join(', ')}${changed.length > 5 ? ', …' : ''}): nothing was written; plan the fill again`);
+        if (plan.cells.length) {
+          const b = bounds(plan.cells);
+          const probe = sheet.getRange(a1Range({ row: b.top, col: b.left }, { row: b.bottom, col: b.right }));
+          probe.load('formulas');
+          await context.sync();
+          const now = probe.formulas as unknown[][];
+          const changed: string[] = [];
+          for (const c of plan.cells) {
+            const v = fromExcel(now[c.row - b.top]?.[c.col - b.left]);
+            if (v !== null && !confirmed.has(c.address)) changed.push(c.address);
+          }
+          if (changed.length) {
+            throw new FillWriteError('changed', `cells changed since the fill was planned (${changed.slice(0, 5).join(', ')}${changed.length > 5 ? ', …' : ''}): nothing was written; plan the fill again`);
+          }
         }
 
-        // Sync 2: everything else.
+        // Sync 2: everything else; the provenance block on a sheet of its own when the plan says so.
         context.application.suspendApiCalculationUntilNextSync();
-        for (const run of columnRuns(plan.cells)) {
-          const first = run.cells[0]!;
-          const range = sheet.getRange(a1Range({ row: run.top, col: run.col }, { row: run.top + run.cells.length - 1, col: run.col }));
-          if (first.format !== undefined) range.numberFormat = run.cells.map((c) => [c ? c.format ?? 'General' : null]) as string[][];
-          range.formulas = run.cells.map((c) => [c ? excelInput(c.content) : null]) as (string | number)[][];
-          const style = ROLE_STYLES[first.role];
-          if (style) {
-            if (style.bold) range.format.font.bold = true;
-            if (style.italic) range.format.font.italic = true;
-            if (style.size) range.format.font.size = style.size;
-            if (style.color) range.format.font.color = style.color;
-            if (style.fill) range.format.fill.color = style.fill;
-            if (style.wrap) range.format.wrapText = true;
-            if (style.bottomBorder) range.format.borders.getItem('EdgeBottom').style = 'Continuous';
+        const blockSheet = plan.blockSheet ? context.workbook.worksheets.add(plan.blockSheet.name) : undefined;
+        const writeCells = (target: Excel.Worksheet, name: string, cells: readonly PlannedCell[], widths: Readonly<Record<number, number>>): void => {
+          for (const run of columnRuns(cells)) {
+            const first = run.cells[0]!;
+            const range = target.getRange(a1Range({ row: run.top, col: run.col }, { row: run.top + run.cells.length - 1, col: run.col }));
+            if (first.format !== undefined) range.numberFormat = run.cells.map((c) => [c ? c.format ?? 'General' : null]) as string[][];
+            range.formulas = run.cells.map((c) => [c ? excelInput(c.content) : null]) as (string | number)[][];
+            const style = ROLE_STYLES[first.role];
+            if (style) {
+              if (style.bold) range.format.font.bold = true;
+              if (style.italic) range.format.font.italic = true;
+              if (style.size) range.format.font.size = style.size;
+              if (style.color) range.format.font.color = style.color;
+              if (style.fill) range.format.fill.color = style.fill;
+              if (style.wrap) range.format.wrapText = true;
+              if (style.bottomBorder) range.format.borders.getItem('EdgeBottom').style = 'Continuous';
+            }
           }
-        }
-        const tierCell = sheet.getRange(plan.tierCell.replace(/\$/g, ''));
+          if (notes !== 'none') {
+            for (const c of cells) {
+              if (!c.note) continue;
+              if (notes === 'notes') target.notes.add(c.address, c.note);
+              else context.workbook.comments.add(`${name}!${c.address}`, c.note);
+            }
+          }
+          for (const [col, chars] of Object.entries(widths)) {
+            const letter = columnLetters(Number(col));
+            target.getRange(`${letter}:${letter}`).format.columnWidth = chars * POINTS_PER_CHARACTER;
+          }
+        };
+        writeCells(sheet, plan.sheetName, plan.cells, plan.columnWidths);
+        if (blockSheet && plan.blockSheet) writeCells(blockSheet, plan.blockSheet.name, plan.blockSheet.cells, plan.blockSheet.columnWidths);
+        const tierCell = (blockSheet ?? sheet).getRange(plan.tierCell.replace(/^.*!/, '').replace(/\$/g, ''));
         tierCell.dataValidation.clear();
         tierCell.dataValidation.rule = { list: { inCellDropDown: true, source: TIER_CHOICES } };
-        if (notes !== 'none') {
-          for (const c of plan.cells) {
-            if (!c.note) continue;
-            if (notes === 'notes') sheet.notes.add(c.address, c.note);
-            else context.workbook.comments.add(`${plan.sheetName}!${c.address}`, c.note);
-          }
-        }
-        for (const [col, chars] of Object.entries(plan.columnWidths)) {
-          const letter = columnLetters(Number(col));
-          sheet.getRange(`${letter}:${letter}`).format.columnWidth = chars * POINTS_PER_CHARACTER;
-        }
         if (plan.target === 'new-sheet') sheet.activate();
         await context.sync();
-        return { sheetName: plan.sheetName, cellsWritten: plan.cells.length, overwritten: [...confirmed] };
+        return { sheetName: plan.sheetName, cellsWritten: plan.cells.length + (plan.blockSheet?.cells.length ?? 0), overwritten: [...confirmed] };
       });
     },
   };

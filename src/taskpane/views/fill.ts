@@ -1,10 +1,12 @@
 /**
  * Fill view: choose the sheet's tier (and a tier for single analytes), the coverage (a z, or a
  * probability turned into z by ZSCORE's own code), the analytes (search and filter), and where
- * to write: a new sheet (default), the selected range or the active sheet as a template. The
- * fill planner (src/engine/fill) lays out the cells and lists every non-empty cell the fill
- * would change; nothing is written over such cells until the user ticks the confirmation. The
- * Excel writer then writes the whole plan in one batch.
+ * to write: a new sheet (default), the selected range or the active sheet as a template (the
+ * planner finds its header row). The fill planner (src/engine/fill) lays out the cells, leaves
+ * non-empty cells as they are and lists them (ticking the confirmation overwrites them), and
+ * lists the table's analytes the template lacks (added below its table only when asked), the
+ * template's analytes the table lacks, merged cells it will not write and where the provenance
+ * goes. The Excel writer then writes the whole plan in one batch.
  */
 import { h, replace, field, radioGroup, uid } from '../dom';
 import type { PaneContext, View } from '../app';
@@ -12,7 +14,7 @@ import { readDecimal, FIELDS } from '../../engine/table';
 import type { VariationRow } from '../../engine/table';
 import { TIERS } from '../../engine/tiers';
 import type { Tier } from '../../engine/tiers';
-import { planFill, matchTemplateHeader, COLUMN_HEADERS, DERIVED_FIELDS, uniqueSheetName, columnLetters } from '../../engine/fill';
+import { planFill, matchTemplateHeader, COLUMN_HEADERS, DERIVED_FIELDS, uniqueSheetName, columnLetters, findHeaderRow, headerRowAt, formatTemplateReport } from '../../engine/fill';
 import type { FillField, FillMode, FillPlan, FillRequest, PlanResult, TemplateMapping } from '../../engine/fill';
 import type { TargetSheet } from '../host';
 import { zOf } from '../state';
@@ -51,6 +53,7 @@ export function fillView(ctx: PaneContext): View {
   let target: TargetSheet | null = null;
   let mapping: Record<string, FillField | null> = {};
   let overwrite = false;
+  let append = false;
 
   // ---- tiers and coverage -------------------------------------------------------------------
   const zOut = h('output', { id: 'z-used', class: 'z-used' });
@@ -225,9 +228,18 @@ export function fillView(ctx: PaneContext): View {
   const checkButton = h('button', { type: 'button', class: 'primary', id: 'check-fill' }, 'Check the fill');
   checkButton.addEventListener('click', () => void check());
 
+  const appendBox = h('input', { type: 'checkbox', id: 'fill-append' });
+  appendBox.addEventListener('change', () => {
+    append = appendBox.checked;
+    invalidate();
+  });
+  const appendField = h('p', { class: 'check-line' }, h('label', { class: 'check', for: appendBox.id }, appendBox, 'Add the table’s other analytes in empty rows below the template’s table'));
+
   function renderWhere(): void {
     const nameField = field('New sheet name', sheetNameInput, 'A number is added if the name is taken.');
     nameField.hidden = where !== 'new-sheet';
+    appendField.hidden = where === 'new-sheet';
+    appendBox.checked = append;
     replace(
       whereBox,
       h('h2', {}, 'Where to write'),
@@ -237,7 +249,7 @@ export function fillView(ctx: PaneContext): View {
         [
           { value: 'new-sheet' as Where, label: 'A new sheet' },
           { value: 'range' as Where, label: 'The selected range (its first row holds the headers)' },
-          { value: 'template' as Where, label: 'The active sheet as a template (its first filled row holds the headers)' },
+          { value: 'template' as Where, label: 'The active sheet as a template (Leeway finds its header row)' },
         ],
         where,
         (w) => {
@@ -245,10 +257,12 @@ export function fillView(ctx: PaneContext): View {
           mapping = {};
           target = null;
           nameField.hidden = w !== 'new-sheet';
+          appendField.hidden = w === 'new-sheet';
           invalidate();
         },
       ),
       nameField,
+      appendField,
       radioGroup(
         'Derived columns',
         'fill-mode',
@@ -262,7 +276,7 @@ export function fillView(ctx: PaneContext): View {
           invalidate();
         },
       ),
-      h('p', { class: 'hint' }, 'Only empty cells are written unless you confirm the cells listed after the check. Text starting with = + - @ is written as text.'),
+      h('p', { class: 'hint' }, 'Only empty cells are written: non-empty ones are listed after the check, and overwritten only if you tick them. Text starting with = + - @ is written as text.'),
       h('div', { class: 'actions' }, checkButton),
     );
   }
@@ -286,7 +300,7 @@ export function fillView(ctx: PaneContext): View {
     if (where === 'new-sheet') return { ...base, target: { kind: 'new-sheet', sheetName } };
     if (!t) return 'The sheet has not been read yet.';
     const headerAt = where === 'range' ? { row: t.selection.row, col: t.selection.col } : undefined;
-    return { ...base, target: { kind: 'template', sheet: t.snapshot, headerAt, mapping: mapping as TemplateMapping } };
+    return { ...base, target: { kind: 'template', sheet: t.snapshot, headerAt, mapping: mapping as TemplateMapping, append } };
   }
 
   async function check(): Promise<void> {
@@ -319,24 +333,9 @@ export function fillView(ctx: PaneContext): View {
     renderCheck(res, sheetName);
   }
 
-  function headerRowOf(t: TargetSheet): { row: number; cells: Array<{ col: number; text: string }> } | null {
-    const s = t.snapshot;
-    let row: number;
-    if (where === 'range') row = t.selection.row;
-    else {
-      const i = s.cells.findIndex((r) => r.some((v) => v !== null && v !== ''));
-      if (i < 0) return null;
-      row = s.origin.row + i;
-    }
-    const r = s.cells[row - s.origin.row] ?? [];
-    const startCol = where === 'range' ? t.selection.col : s.origin.col;
-    const cells: Array<{ col: number; text: string }> = [];
-    r.forEach((v, j) => {
-      const col = s.origin.col + j;
-      if (col < startCol) return;
-      if (typeof v === 'string' && v.trim() !== '') cells.push({ col, text: v.trim() });
-    });
-    return { row, cells };
+  function headerRowOf(t: TargetSheet): { row: number; cells: ReadonlyArray<{ col: number; text: string }> } | null {
+    const h0 = where === 'range' ? headerRowAt(t.snapshot, { row: t.selection.row, col: t.selection.col }, mapping as TemplateMapping) : findHeaderRow(t.snapshot, mapping as TemplateMapping);
+    return h0 ? { row: h0.at.row, cells: h0.cells } : null;
   }
 
   function mappingTable(t: TargetSheet): HTMLElement | null {
@@ -370,14 +369,16 @@ export function fillView(ctx: PaneContext): View {
     if (!res.ok) {
       const ul = h('ul', { class: 'problems' });
       for (const p of res.problems) ul.appendChild(h('li', { class: 'problem error' }, h('span', { class: 'where' }, p.where || 'Fill'), h('span', { class: 'what' }, p.message)));
-      replace(checkBox, h('h2', { tabindex: -1 }, 'Cannot fill yet'), mapBox, ul);
+      const noHeader = res.problems.some((p) => p.code === 'no-header');
+      const hint = noHeader ? h('p', { class: 'hint', id: 'header-hint' }, 'Select the first cell of the template’s header row, choose “The selected range” above, and check again.') : null;
+      replace(checkBox, h('h2', { tabindex: -1 }, 'Cannot fill yet'), mapBox, ul, hint);
       ctx.status(`The fill cannot be planned: ${res.problems[0].message}.`, 'error');
       return;
     }
     const p = res.plan;
     const conflictList = h('ul', { class: 'conflicts', id: 'conflicts' });
     for (const c of p.conflicts.slice(0, CONFLICT_LIMIT)) {
-      conflictList.appendChild(h('li', { 'data-address': c.address }, h('span', { class: 'where' }, c.address), h('span', { class: 'what' }, `holds ${String(c.existing)}; would become ${c.planned}`)));
+      conflictList.appendChild(h('li', { 'data-address': c.address }, h('span', { class: 'where' }, c.address), h('span', { class: 'what' }, `holds ${String(c.existing)}; Leeway would write ${c.planned}`)));
     }
     if (p.conflicts.length > CONFLICT_LIMIT) conflictList.appendChild(h('li', {}, `and ${p.conflicts.length - CONFLICT_LIMIT} more cells`));
     const confirm = h('input', { type: 'checkbox', id: 'confirm-overwrite' });
@@ -387,8 +388,14 @@ export function fillView(ctx: PaneContext): View {
       plan(sheetName);
       checkBox.querySelector<HTMLInputElement>('#confirm-overwrite')?.focus();
     });
-    const go = h('button', { type: 'button', class: 'primary', id: 'run-fill', disabled: !p.writable }, p.writable ? `Fill ${p.rows.length} analyte${p.rows.length === 1 ? '' : 's'}` : 'Confirm the overwrite first');
+    // Everything else the planner found (merged cells, analytes on one side only, where the provenance goes).
+    const hints = { overwrite: 'tick them to overwrite', append: 'tick “Add the table’s other analytes” to add them', pick: 'pick one specimen in the list' };
+    const reportLines = p.target === 'template' ? formatTemplateReport({ ...p, conflicts: [] }, hints) : [];
+    const report = reportLines.length ? h('ul', { class: 'template-report', id: 'template-report' }, ...reportLines.map((line) => h('li', {}, line))) : null;
+    const n = p.rows.length;
+    const go = h('button', { type: 'button', class: 'primary', id: 'run-fill', disabled: !p.writable }, `Fill ${n} analyte${n === 1 ? '' : 's'}`);
     go.addEventListener('click', () => void write(p));
+    const kept = p.conflicts.length && !p.overwrite;
     replace(
       checkBox,
       h('h2', { tabindex: -1, id: 'check-title' }, 'Ready to fill'),
@@ -407,20 +414,22 @@ export function fillView(ctx: PaneContext): View {
         h('dt', {}, 'z cell'),
         h('dd', { id: 'plan-z-cell' }, `${p.zCell} (${fmt(p.provenance.z, 4)})`),
         h('dt', {}, 'Cells to write'),
-        h('dd', {}, `${p.cells.length}${p.unchanged ? ` (${p.unchanged} already hold the same)` : ''}`),
+        h('dd', {}, `${p.cells.length + (p.blockSheet?.cells.length ?? 0)}${p.unchanged ? ` (${p.unchanged} already hold the same)` : ''}`),
       ),
       p.conflicts.length
         ? h(
             'div',
             { class: 'confirm', role: 'group', 'aria-labelledby': 'conflict-title' },
-            h('h3', { id: 'conflict-title' }, `${p.conflicts.length} non-empty cell${p.conflicts.length === 1 ? '' : 's'} would change`),
+            h('h3', { id: 'conflict-title' }, `${p.conflicts.length} non-empty cell${p.conflicts.length === 1 ? '' : 's'} ${p.overwrite ? 'will be overwritten' : p.conflicts.length === 1 ? 'left as it is' : 'left as they are'}`),
             conflictList,
             h('label', { class: 'check', for: confirm.id }, confirm, `Overwrite these ${p.conflicts.length} cells`),
           )
         : h('p', { class: 'ok' }, 'Every target cell is empty (or already holds the same).'),
+      report,
       h('div', { class: 'actions' }, go),
     );
-    ctx.status(p.conflicts.length && !p.writable ? `${p.conflicts.length} non-empty cells would change: review them, then confirm or change the target.` : 'Checked: ready to fill.', p.conflicts.length && !p.writable ? 'error' : 'info');
+    const one = p.conflicts.length === 1;
+    ctx.status(kept ? `Checked: ${p.conflicts.length} non-empty cell${one ? '' : 's'} will be left as ${one ? 'it is' : 'they are'} (listed); tick ${one ? 'it' : 'them'} to overwrite.` : 'Checked: ready to fill.', 'info');
   }
 
   async function write(p: FillPlan): Promise<void> {
@@ -428,7 +437,8 @@ export function fillView(ctx: PaneContext): View {
     try {
       ctx.status(`Filling ${p.sheetName}…`, 'busy');
       const out = await ctx.host.writeFill(p);
-      state.filled = { sheet: out.sheet, tierCell: p.tierCell, zCell: p.zCell, tier: p.provenance.tier };
+      const local = (ref: string): string => ref.replace(/^.*!/, '');
+      state.filled = { sheet: p.blockSheet?.name ?? out.sheet, tierCell: local(p.tierCell), zCell: local(p.zCell), tier: p.provenance.tier };
       state.changed('filled');
       invalidate();
       ctx.status(`Filled ${out.sheet}: ${p.rows.length} analytes, ${out.cells} cells. The tier is in ${p.tierCell}, z in ${p.zCell}.`, 'ok');

@@ -1,5 +1,5 @@
 /**
- * The fill planner (SPEC.md section 6). Expected values come from the registry's evaluate() on
+ * The fill planner. Expected values come from the registry's evaluate() on
  * the same inputs (the function both front ends run) and from the usual worked example
  * CVI 5.7 %, CVG 6.9 %, desirable: total error 6.94 % at z = 1.65 (common practice, no source).
  */
@@ -90,7 +90,7 @@ describe('planFill on a new sheet, live formulas', () => {
     expect(at(p, p.zCell.replace(/\$/g, ''))!.content).toEqual({ kind: 'number', value: 1.65 });
   });
 
-  test('provenance: table name and source, tier, z, date, program version; and the caution of SPEC.md section 9', () => {
+  test('provenance: table name and source, tier, z, date, program version; and the caution', () => {
     const all = texts(p);
     expect(all).toEqual(expect.arrayContaining(['tests.csv', '/tmp/tests.csv', '2026-01-05', '2026-02-03', `Leeway ${VERSION}`, 'Invented for tests (2026-01)']));
     const caution = p.cells.filter((c) => c.role === 'caution').map((c) => (c.content.kind === 'text' ? c.content.text : '')).join(' ');
@@ -193,44 +193,59 @@ describe('planFill into a template', () => {
     if (!r.ok) return;
     const p = r.plan;
     expect(p.columns.map((c) => [c.field, c.letter])).toEqual([['analyte', 'B'], ['spec_total', 'C'], ['cvi', 'D'], ['cvg', 'E'], ['source', 'F']]);
-    expect(p.cells.some((c) => c.col === 1 && c.row >= 3)).toBe(false);
+    // The Reviewer column and the header row of the table (rows 3–5) are not written.
+    expect(p.cells.some((c) => c.col === 1 && c.row >= 3 && c.row <= 5)).toBe(false);
     expect(p.cells.some((c) => c.row === 3 && c.col <= 6)).toBe(false);
   });
 
-  test('a listed analyte keeps its row; a new one takes the first row with an empty analyte cell', () => {
+  test('a listed analyte keeps its row; a table analyte the template lacks is reported, and added below the table only when appending is asked for', () => {
     const r = planFill(request());
     if (!r.ok) throw new Error('plan failed');
-    expect(r.plan.rows.map((x) => [x.analyte, x.row])).toEqual([['Brontase', 4], ['Arvelin', 5]]);
+    expect(r.plan.rows.map((x) => [x.analyte, x.row])).toEqual([['Brontase', 4]]);
+    expect(r.plan.template.notInTemplate).toEqual([{ analyte: 'Arvelin', specimen: 'serum' }]);
     const te = r.plan.cells.find((c) => c.address === 'C4')!;
     expect(te.content).toMatchObject({ kind: 'formula', formula: `=LEEWAY.SPEC.TOTAL(D4,E4,${r.plan.tierCell},${r.plan.zCell})` });
+    const a = planFill({ ...request(), target: { kind: 'template', sheet: snapshot, headerAt: { row: 3, col: 1 }, append: true } });
+    if (!a.ok) throw new Error('plan failed');
+    // Row 5 belongs to the template's table (it holds "kept" and "hand-typed"): the first empty row below is 6.
+    expect(a.plan.rows.map((x) => [x.analyte, x.row])).toEqual([['Brontase', 4], ['Arvelin', 6]]);
+    expect(a.plan.template.appended.map((x) => x.row)).toEqual([6]);
   });
 
-  test('non-empty cells are conflicts, listed; identical ones are left alone; the plan is not writable without overwrite', () => {
+  test('non-empty cells are conflicts, listed and left as they are; identical ones are left alone; overwrite replaces them', () => {
     const r = planFill(request());
     if (!r.ok) throw new Error('plan failed');
     const p = r.plan;
-    expect(p.conflicts.map((c) => [c.address, c.existing, c.planned])).toEqual([
-      ['E4', 99, '18.1'],
-      ['C5', 'hand-typed', `=LEEWAY.SPEC.TOTAL(D5,E5,${p.tierCell},${p.zCell})`],
-    ]);
-    expect(p.unchanged).toBe(2); // B4 "Brontase" and D4 12.4 already hold what the fill writes
+    expect(p.conflicts.map((c) => [c.address, c.existing, c.planned])).toEqual([['E4', 99, '18.1']]);
+    expect(p.unchanged).toBe(1); // D4 12.4 already holds what the fill writes (B4, the analyte that matched, is not a target)
     expect(p.cells.find((c) => c.address === 'B4')).toBeUndefined();
-    expect(p.writable).toBe(false);
+    expect(p.cells.find((c) => c.address === 'E4')).toBeUndefined();
+    expect(p.writable).toBe(true);
+    // The formula reads the sheet's own CVG (99): its stored result is the registry's for 12.4 and 99.
+    const te = p.cells.find((c) => c.address === 'C4')!.content;
+    expect(te.kind === 'formula' && te.result).toBe(evaluate('SPEC.TOTAL', [12.4, 99, 'desirable', 1.65])[0][0]);
     const o = planFill(request(true));
-    expect(o.ok && o.plan.writable && o.plan.conflicts.length).toBe(2);
+    if (!o.ok) throw new Error('plan failed');
+    expect(o.plan.conflicts.length).toBe(1);
+    expect(o.plan.cells.find((c) => c.address === 'E4')!.content).toEqual({ kind: 'number', value: 18.1 });
+    const te2 = o.plan.cells.find((c) => c.address === 'C4')!.content;
+    expect(te2.kind === 'formula' && te2.result).toBe(evaluate('SPEC.TOTAL', [12.4, 18.1, 'desirable', 1.65])[0][0]);
   });
 
-  test('the block goes two columns right of the used range, level with the header row', () => {
+  test('the block goes below the table in its first column, one blank row between; the tier and z values clear their labels', () => {
     const r = planFill(request());
     if (!r.ok) throw new Error('plan failed');
-    expect(r.plan.cells.find((c) => c.role === 'title')!.address).toBe('H3');
-    expect(r.plan.tierCell).toBe('$I$4');
-    expect(r.plan.zCell).toBe('$I$5');
+    expect(r.plan.cells.find((c) => c.role === 'title')!.address).toBe('A7');
+    // Labels of 19 characters need three default columns (3 × 8.43 ≥ 20): the values go to column D.
+    expect(r.plan.tierCell).toBe('$D$8');
+    expect(r.plan.zCell).toBe('$D$9');
+    expect(r.plan.cells.find((c) => c.address === 'A8')!.content).toEqual({ kind: 'text', text: 'Tier (whole sheet)' });
+    expect(r.plan.template.provenanceAt).toMatch(/^below the table, A7:A\d+$/);
   });
 
   test('a template without an analyte column, or with a derived column lacking its inputs, is refused with the reason', () => {
     const noAnalyte: SheetSnapshot = { name: 'T', origin: { row: 1, col: 1 }, cells: [['CVI', 'Allowable bias %']] };
-    const r = planFill({ ...request(), target: { kind: 'template', sheet: noAnalyte } });
+    const r = planFill({ ...request(), target: { kind: 'template', sheet: noAnalyte, headerAt: { row: 1, col: 1 } } });
     expect(r.ok).toBe(false);
     if (r.ok) return;
     expect(r.problems.map((x) => x.message).join(' | ')).toMatch(/no analyte column.*\|.*needs a CVG % column/);

@@ -1,7 +1,7 @@
 /**
  * The task pane's Excel writer against office-addin-mock: what is written where, nothing over
  * non-empty cells without confirmation, formula-looking text kept as text, and the number of
- * context.sync() calls the same for 10 and 1,000 rows (SPEC.md section 6: one batch per fill).
+ * context.sync() calls the same for 10 and 1,000 rows (one batch per fill).
  */
 
 // office-addin-mock reads only the OfficeApp names from office-addin-manifest, whose ESM
@@ -9,7 +9,7 @@
 jest.mock('office-addin-manifest', () => ({
   OfficeApp: { Excel: 'excel', OneNote: 'onenote', Outlook: 'outlook', PowerPoint: 'powerpoint', Project: 'project', Word: 'word' },
 }));
-import { createSheetIO, excelInput, FillWriteError } from '../../../src/taskpane/excel';
+import { createSheetIO, excelInput, FillWriteError, READ_CELL_LIMIT } from '../../../src/taskpane/excel';
 import { OfficeMockObject } from 'office-addin-mock';
 import type { ExcelRun } from '../../../src/taskpane/excel';
 import { harness } from '../../support/excel-harness';
@@ -103,14 +103,20 @@ describe('Excel writer (office-addin-mock)', () => {
       cells: [1, 2, 3].map((r) => ['A', 'B', 'C', 'D', 'E'].map((c) => m.get(`${c}${r}`) ?? null)),
     });
 
-    test('refuses a plan with unconfirmed conflicts and sends nothing to Excel', async () => {
+    // Behaviour changed: the planner leaves non-empty cells out of the plan (and lists them)
+    // instead of making a plan the writer must refuse; the writer still refuses a plan marked not
+    // writable, and sends nothing to Excel.
+    test('a plan leaves the listed non-empty cells as they are; a plan marked not writable is refused and nothing is sent to Excel', async () => {
       const h = harness({ T: template() });
       const plan = makePlan([row(1), row(2)], { kind: 'template', sheet: snapshot(template()) });
       expect(plan.conflicts.map((c) => c.address)).toEqual(['E2']);
-      await expect(createSheetIO(h.run).write(plan)).rejects.toThrow(FillWriteError);
+      await expect(createSheetIO(h.run).write({ ...plan, writable: false })).rejects.toThrow(FillWriteError);
       expect(h.syncs()).toBe(0);
       expect(h.sheets.get('T')!.get('E2')).toBe('typed by hand');
       expect(h.sheets.get('T')!.size).toBe(7);
+      await createSheetIO(h.run).write(plan);
+      expect(h.sheets.get('T')!.get('E2')).toBe('typed by hand');
+      expect(h.sheets.get('T')!.get('B2')).toBe(3);
     });
 
     test('with overwrite confirmed, the listed cells are overwritten and reported', async () => {
@@ -124,7 +130,7 @@ describe('Excel writer (office-addin-mock)', () => {
 
     test('a cell filled after planning stops the write before anything is written', async () => {
       const m = template();
-      const plan = makePlan([row(1), row(2)], { kind: 'template', sheet: snapshot(m) }, true);
+      const plan = makePlan([row(1), row(2)], { kind: 'template', sheet: snapshot(m), append: true }, true);
       m.set('B3', 99);
       const h = harness({ T: m });
       await expect(createSheetIO(h.run).write(plan)).rejects.toThrow(/changed since the fill was planned \(B3\)/);
@@ -143,7 +149,7 @@ describe('Excel writer (office-addin-mock)', () => {
             worksheets: {
               getItem: () => ({
                 getUsedRangeOrNullObject: () =>
-                  (made = new OfficeMockObject({ isNullObject: false, rowIndex: 0, columnIndex: 0, formulas: snapshot(m).cells.map((r) => r.map((v) => v ?? '')) })),
+                  (made = new OfficeMockObject({ isNullObject: false, rowIndex: 0, columnIndex: 0, rowCount: 3, columnCount: 5, formulas: snapshot(m).cells.map((r) => r.map((v) => v ?? '')) })),
               }),
             },
           },
@@ -158,6 +164,44 @@ describe('Excel writer (office-addin-mock)', () => {
       expect(snap.cells[0]).toEqual(['Analyte', 'CVI', 'CVG', 'Source', 'Allowable total error']);
       expect(snap.cells[1][1]).toBeNull();
       expect(snap.cells[2][2]).toBe('=1+1');
+    });
+
+    test('a used range stretched by a far stray value is read from its first rows only; merged areas and column widths come with it', async () => {
+      // The used range A1:ZZ200000 (702 columns): at most READ_CELL_LIMIT cells are loaded.
+      let resized: [number, number] | undefined;
+      const objects: OfficeMockObject[] = [];
+      const mock = (o: Record<string, unknown>): OfficeMockObject => {
+        const m = new OfficeMockObject(o as never);
+        objects.push(m);
+        return m;
+      };
+      const part = mock({ formulas: [['Analyte', 'CVI %']] });
+      // office-addin-mock does not load collection paths (areas/items/…): a plain stand-in whose values are there already.
+      const merged = { isNullObject: false, areas: { items: [{ rowIndex: 2, columnIndex: 1, rowCount: 1, columnCount: 2 }] }, load: () => undefined };
+      Object.assign(part, { getMergedAreasOrNullObject: () => merged });
+      const used = Object.assign(mock({ isNullObject: false, rowIndex: 0, columnIndex: 0, rowCount: 200000, columnCount: 702 }), {
+        getResizedRange: (dr: number, dc: number) => {
+          resized = [dr, dc];
+          return part;
+        },
+      });
+      const run: ExcelRun = async (batch) => {
+        const ctx = {
+          workbook: { worksheets: { getItem: () => ({ getUsedRangeOrNullObject: () => used, getCell: () => ({ format: mock({ columnWidth: 56 }) }) }) } },
+          sync: async () => {
+            for (const o of objects) await o.sync();
+          },
+        };
+        return batch(ctx as unknown as Excel.RequestContext);
+      };
+      const snap = await createSheetIO(run, { layout: true }).readUsed('T');
+      const rows = Math.floor(READ_CELL_LIMIT / 702);
+      expect(resized).toEqual([rows - 200000, 0]);
+      expect(snap.readThrough).toBe(rows);
+      expect(snap.merges).toEqual([{ top: 3, left: 2, bottom: 3, right: 3 }]);
+      // 56 points at 5.6 points a character (the pane's own conversion): 10 characters, for the first 64 columns.
+      expect(Object.keys(snap.columnWidths!)).toHaveLength(64);
+      expect(snap.columnWidths![1]).toBeCloseTo(10, 12);
     });
   });
 });
