@@ -24,12 +24,15 @@ describe('SPEC.CV, SPEC.BIAS, SPEC.TOTAL against the published tier factors', ()
 
   test('if given a negative CV, throws #NUM!', () => {
     expect(() => allowableImprecision(-1, 'desirable')).toThrow(LeewayError);
+    let caught: unknown;
     try {
       allowableBias(1, -2, 'desirable');
     } catch (e) {
-      expect((e as LeewayError).code).toBe('#NUM!');
-      expect((e as LeewayError).message).toMatch(/cvg/);
+      caught = e;
     }
+    expect(caught).toBeInstanceOf(LeewayError);
+    expect((caught as LeewayError).code).toBe('#NUM!');
+    expect((caught as LeewayError).message).toMatch(/cvg/);
   });
 
   // Seed 20261202: tiers ordered and the formulas linear in the CVs.

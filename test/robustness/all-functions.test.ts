@@ -104,22 +104,18 @@ describe.each(FUNCTIONS.map((f) => [f.name, f] as const))('%s on generated input
   test(`${CASES} seeded cases: a valid value or an Excel error, never a throw, NaN or Infinity`, () => {
     const rand = mulberry32(20261202 ^ name.length * 7919);
     let errors = 0;
-    let slowest = 0;
     for (let k = 0; k < CASES; k++) {
       const nArgs = def.params.length - Math.floor(rand() * (def.params.filter((p) => p.optional).length + 1));
       const plausible = rand() < 0.5;
       const length = 3 + Math.floor(rand() * 30);
       const args = Array.from({ length: nArgs }, (_v, i) => argFor(rand, def, i, plausible, length));
-      const t0 = Date.now();
       let out: unknown;
       expect(() => {
         out = evaluate(name, args);
       }).not.toThrow();
-      slowest = Math.max(slowest, Date.now() - t0);
       checkOutput(out, `${name}(${JSON.stringify(args).slice(0, 200)})`);
       if (typeof (out as unknown[][])[0][0] === 'object') errors++;
     }
-    counts.push(`  ${name.padEnd(18)} ${CASES} cases, ${errors} whole or first-cell errors, slowest ${slowest} ms`);
-    expect(slowest).toBeLessThan(5000);
+    counts.push(`  ${name.padEnd(18)} ${CASES} cases, ${errors} whole or first-cell errors`);
   });
 });

@@ -189,8 +189,7 @@ describe('planFill into a template', () => {
 
   test('columns are matched by the template’s own headers; extra columns are left alone', () => {
     const r = planFill(request());
-    expect(r.ok).toBe(true);
-    if (!r.ok) return;
+    if (!r.ok) throw new Error(`expected a plan, got problems: ${r.problems.map((x) => x.message).join('; ')}`);
     const p = r.plan;
     expect(p.columns.map((c) => [c.field, c.letter])).toEqual([['analyte', 'B'], ['spec_total', 'C'], ['cvi', 'D'], ['cvg', 'E'], ['source', 'F']]);
     // The Reviewer column and the header row of the table (rows 3–5) are not written.
@@ -246,8 +245,7 @@ describe('planFill into a template', () => {
   test('a template without an analyte column, or with a derived column lacking its inputs, is refused with the reason', () => {
     const noAnalyte: SheetSnapshot = { name: 'T', origin: { row: 1, col: 1 }, cells: [['CVI', 'Allowable bias %']] };
     const r = planFill({ ...request(), target: { kind: 'template', sheet: noAnalyte, headerAt: { row: 1, col: 1 } } });
-    expect(r.ok).toBe(false);
-    if (r.ok) return;
+    if (r.ok) throw new Error('expected the request to be refused');
     expect(r.problems.map((x) => x.message).join(' | ')).toMatch(/no analyte column.*\|.*needs a CVG % column/);
   });
 

@@ -106,8 +106,7 @@ describe('header scan', () => {
 
   test('no header: the problem says so, with a code each front end turns into its own way of pointing at it', () => {
     const r = planFill({ table: table(TABLE_ROWS), tier: 'desirable', z: 1.65, mode: 'values', target: { kind: 'template', sheet: sheet({ A1: 'Title', A2: 'Name', B2: 'Value' }) }, date: '2026-02-03' });
-    expect(r.ok).toBe(false);
-    if (r.ok) return;
+    if (r.ok) throw new Error('expected the request to be refused');
     expect(r.problems[0].code).toBe('no-header');
     expect(r.problems[0].message).toMatch(/^no header row found in the first 30 rows of sheet "Verification"/);
   });
