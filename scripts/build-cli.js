@@ -10,6 +10,6 @@ require('esbuild').buildSync({
   target: 'node20',
   format: 'cjs',
   sourcemap: true,
-  external: ['exceljs', 'papaparse', 'decimal.js', 'jszip', 'saxes'],
+  external: ['exceljs', 'papaparse', 'jszip', 'saxes'],
   logLevel: 'warning',
 });
