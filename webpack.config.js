@@ -6,7 +6,38 @@
 const path = require('path');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
+const ts = require('typescript');
 const { addinOrigin, loadCatalogue } = require('./scripts/lib/catalogue');
+
+/** Where a parameter builder of src/registry/define.ts takes its help text. */
+const TEXT_ARGUMENT = { num: 1, optNum: 2, optNumNone: 1, word: 2, optWord: 3, range: 1, optRange: 1 };
+
+/**
+ * The help text of every catalogue entry (its `doc`, and each parameter's text) reaches Excel
+ * through functions.json and the help pages made below; the add-in's own scripts never read it.
+ * This TypeScript transformer leaves it out of functions.js and taskpane.js (the command line
+ * keeps it for `leeway help`).
+ */
+function withoutCatalogueDocs(context) {
+  const f = ts.factory;
+  return (file) => {
+    if (!/[\\/]src[\\/]registry[\\/](catalogue[\\/]|params\.ts$)/.test(file.fileName)) return file;
+    const visit = (node) => {
+      if (ts.isPropertyAssignment(node) && ts.isIdentifier(node.name) && node.name.text === 'doc' && ts.isObjectLiteralExpression(node.initializer)) {
+        return f.updatePropertyAssignment(node, node.name, f.createObjectLiteralExpression([]));
+      }
+      if (ts.isCallExpression(node) && ts.isIdentifier(node.expression) && node.expression.text in TEXT_ARGUMENT) {
+        const at = TEXT_ARGUMENT[node.expression.text];
+        if (node.arguments.length > at) {
+          const args = node.arguments.map((a, i) => (i === at ? f.createStringLiteral('') : ts.visitNode(a, visit)));
+          return f.updateCallExpression(node, node.expression, node.typeArguments, args);
+        }
+      }
+      return ts.visitEachChild(node, visit, context);
+    };
+    return ts.visitNode(file, visit);
+  };
+}
 
 /** Emits functions.json and help/*.html from the catalogue, read afresh on every build. */
 class CatalogueAssetsPlugin {
@@ -25,7 +56,6 @@ class CatalogueAssetsPlugin {
   }
 }
 
-// Office's own script files for Excel (other hosts and debug builds left out).
 const OFFICE_SKIP = /^(access|onenote|outlook|outlookwebapp|powerpoint|project|visio|word)[-.]|\.debug\.js$|\.d\.ts$|vsdoc/;
 
 module.exports = (env, argv) => {
@@ -46,7 +76,10 @@ module.exports = (env, argv) => {
         {
           test: /\.ts$/,
           exclude: /node_modules/,
-          use: { loader: 'ts-loader', options: { transpileOnly: true, compilerOptions: { noEmit: false, sourceMap: dev } } },
+          use: {
+            loader: 'ts-loader',
+            options: { transpileOnly: true, compilerOptions: { noEmit: false, sourceMap: dev }, getCustomTransformers: () => ({ before: [withoutCatalogueDocs] }) },
+          },
         },
         { test: /\.css$/, type: 'asset/resource', generator: { filename: 'assets/[name][ext]' } },
       ],

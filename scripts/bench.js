@@ -22,7 +22,10 @@ export { planFill } from './src/engine/fill';
 export { createSheetIO } from './src/taskpane/excel';
 export { harness } from './test/support/excel-harness';
 export { main } from './src/cli/main';
-export { mulberry32 } from './src/engine/demo/random';
+export { mulberry32, normalDeviates } from './src/engine/demo/random';
+export { clearRiskCaches } from './src/engine/qc/risk';
+export { verifyPrecision, agreement } from './src/engine/verify';
+export { parseTableBytes } from './src/engine/table';
 `;
 const L = loadSources(entry, 'bench-entry');
 
@@ -317,6 +320,156 @@ const cvg = new Float64Array(N);
   xl.sort((a, b) => a - b);
   timing('xlsx_fill_1000_ms', 'leeway fill, 1,000 analytes into a new .xlsx (in-process)', { median: xl[2], min: xl[0], max: xl[4] }, '≤ 3000');
   fs.rmSync(dir, { recursive: true, force: true });
+}
+
+// --- Verification: VERIFY.PRECISION on a 5 × 5 design and DATA.AGREEMENT on 1,000 pairs,
+// through the registry; "first" is the first call of the process (cold code), then warm medians.
+{
+  const g = L.normalDeviates(seeded(14));
+  const values = [];
+  const days = [];
+  for (let d = 0; d < 5; d++) for (let r = 0; r < 5; r++) {
+    values.push([100 + 1.5 * g() + d * 0.8]);
+    days.push([`day ${d + 1}`]);
+  }
+  const x = [];
+  const y = [];
+  for (let i = 0; i < 1000; i++) {
+    const t = 50 + 150 * (i / 1000);
+    x.push([t + g()]);
+    y.push([1.02 * t + 0.5 + g()]);
+  }
+  let t0 = performance.now();
+  L.evaluate('VERIFY.PRECISION', [values, days, 1.5, 2.5]);
+  const precisionFirst = performance.now() - t0;
+  t0 = performance.now();
+  L.evaluate('DATA.AGREEMENT', [x, y]);
+  const agreementFirst = performance.now() - t0;
+  record('verify_precision_first_ms', 'VERIFY.PRECISION, 5 days × 5 replicates, first call of the process', precisionFirst, 'cold code', '≪ 1', ' ms');
+  timing('verify_precision_ms', 'VERIFY.PRECISION, 5 × 5, warm', measure(() => L.evaluate('VERIFY.PRECISION', [values, days, 1.5, 2.5]), { runs: 31, warmup: 20 }), '≪ 1');
+  record('agreement_first_ms', 'DATA.AGREEMENT, 1,000 pairs, first call of the process', agreementFirst, 'cold code', '≤ 5', ' ms');
+  timing('agreement_1000_ms', 'DATA.AGREEMENT, 1,000 pairs, warm', measure(() => L.evaluate('DATA.AGREEMENT', [x, y]), { runs: 31, warmup: 10 }), '≤ 5');
+}
+
+// --- Review of control results: QC.FLAGS on 10,000 results (two materials, two per run,
+// labelled runs) under the five-term multirule, through the registry.
+{
+  const g = L.normalDeviates(seeded(15));
+  const values = [];
+  const target = [];
+  const sd = [];
+  const runs = [];
+  const levels = [];
+  for (let i = 0; i < 10000; i++) {
+    const high = i % 2 === 1;
+    const t = high ? 250 : 80;
+    const s = high ? 6 : 2.5;
+    values.push([t + s * g()]);
+    target.push([t]);
+    sd.push([s]);
+    runs.push([`run ${Math.floor(i / 2) + 1}`]);
+    levels.push([high ? 'High' : 'Low']);
+  }
+  const rule = '1-3s/2-2s/R-4s/4-1s/10-x';
+  const t0 = performance.now();
+  L.evaluate('QC.FLAGS', [values, target, sd, rule, runs, levels]);
+  record('flags_first_ms', 'QC.FLAGS, 10,000 results, five-term rule, first call of the process', performance.now() - t0, 'cold code', '≤ 20', ' ms');
+  timing('flags_10000_ms', 'QC.FLAGS, 10,000 results, five-term rule, warm', measure(() => L.evaluate('QC.FLAGS', [values, target, sd, rule, runs, levels]), { runs: 15, warmup: 3 }), '≤ 20');
+}
+
+// --- Risk-based QC frequency: QC.RISK cold (every QC cache emptied, code warm) and cached;
+// QC.PLAN with its run size cold; a sheet of 300 QC.PLAN calls recalculated in HyperFormula.
+{
+  const cold = () => {
+    L.clearQcCaches();
+    L.clearRiskCaches();
+  };
+  for (let i = 0; i < 3; i++) {
+    cold();
+    L.evaluate('QC.RISK', [7 + i, 0.5, 1.5, '1-3s/2-2s/R-4s', 2, 10]);
+  }
+  let k = 0;
+  const risk = measure(() => {
+    cold();
+    L.evaluate('QC.RISK', [6 + 0.01 * k++, 1, 1.2, '1-3s/2-2s/R-4s/4-1s', 4, 100]);
+  }, { runs: 9 });
+  timing('risk_cold_ms', 'QC.RISK 1-3s/2-2s/R-4s/4-1s, n 4, cold caches', risk, '≤ 100');
+  L.evaluate('QC.RISK', [6, 1, 1.2, '1-3s/2-2s/R-4s/4-1s', 4, 100]);
+  const cachedBatch = measure(() => {
+    for (let i = 0; i < 1000; i++) L.evaluate('QC.RISK', [6, 1, 1.2, '1-3s/2-2s/R-4s/4-1s', 4, 100]);
+  });
+  timing('risk_cached_ms', 'QC.RISK, the same call cached', { median: cachedBatch.median / 1000, min: cachedBatch.min / 1000, max: cachedBatch.max / 1000 }, '≪ 1');
+  let j = 0;
+  const planRun = measure(() => {
+    cold();
+    L.evaluate('QC.PLAN', [7.5 + 0.01 * j++, 1, 2]);
+  }, { runs: 9 });
+  timing('plan_runsize_cold_ms', 'QC.PLAN with its run size, cold caches', planRun, '≤ 300');
+  const rand = seeded(16);
+  const sheetRows = [];
+  for (let i = 0; i < 300; i++) {
+    const cv = 0.8 + 3 * rand();
+    sheetRows.push([cv * (3 + 5 * rand()), 2 * rand() - 1, cv, `=LEEWAY.QC.PLAN(A${2 * i + 1},B${2 * i + 1},C${2 * i + 1})`]);
+    sheetRows.push([null, null, null, null]);
+  }
+  cold();
+  const hf = L.leewaySheet({ S: sheetRows });
+  const recalc = measure(() => {
+    cold();
+    hf.rebuildAndRecalculate();
+  }, { runs: 3, warmup: 0 });
+  timing('plan_sheet_300_ms', 'a sheet of 300 QC.PLAN calls recalculated in HyperFormula, cold caches', recalc, '≤ 5000');
+}
+
+// --- Files, each read or filled by the built command in a fresh process (its wall time inside
+// the process and its peak resident memory): a table whose every line ends in 5,000 empty
+// columns (a spreadsheet saving a wide empty range), `--mb` megabytes (default 100); a template
+// with one stray value at ZZ200000 against the same template without it.
+{
+  const { execFileSync } = require('child_process');
+  const cli = path.join(root, 'dist', 'cli', 'leeway.js');
+  if (!fs.existsSync(cli)) execFileSync(process.execPath, [path.join(root, 'scripts', 'build-cli.js')], { stdio: 'inherit' });
+  const once = (args) => {
+    const code = `
+      const { performance } = require('perf_hooks');
+      const { main } = require(${JSON.stringify(cli)});
+      const t0 = performance.now();
+      main(${JSON.stringify(args)}, { out: () => {}, err: () => {} }).then((rc) => {
+        process.stdout.write(JSON.stringify({ rc, ms: performance.now() - t0, rss: process.resourceUsage().maxRSS }));
+      });`;
+    return JSON.parse(execFileSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: root, maxBuffer: 1 << 26 }));
+  };
+  const child = (key, label, args, target, runs = 3) => {
+    const r = Array.from({ length: runs }, () => once(args));
+    const ms = r.map((x) => x.ms).sort((a, b) => a - b);
+    const rss = Math.max(...r.map((x) => x.rss)) / 1024;
+    record(key, label, ms[runs >> 1], `${ms[0].toFixed(0)}–${ms[runs - 1].toFixed(0)} ms, peak memory ${rss.toFixed(0)} MiB, exit ${r[0].rc}`, target, ' ms');
+    out[key + '_rss_mib'] = Number(rss.toPrecision(4));
+  };
+  const dir = fs.mkdtempSync(path.join(require('os').tmpdir(), 'leeway-bench-files-'));
+  try {
+    const mbArg = process.argv.indexOf('--mb');
+    const target = (mbArg > 0 ? Number(process.argv[mbArg + 1]) : 100) * 1e6;
+    const tail = ','.repeat(5000);
+    const wide = path.join(dir, 'wide.csv');
+    const fd = fs.openSync(wide, 'w');
+    fs.writeSync(fd, `analyte,cvi,source${tail}\r\n`);
+    let size = 0;
+    for (let i = 0; size < target - 200000; i += 200) {
+      const chunk = Array.from({ length: 200 }, (_v, k) => `Analyte ${i + k},${(1 + ((i + k) % 9) / 10).toFixed(1)},Invented for the benchmark${tail}\r\n`).join('');
+      fs.writeSync(fd, chunk);
+      size += chunk.length;
+    }
+    fs.closeSync(fd);
+    child('check_wide_ms', `leeway check, ${(size / 1e6).toFixed(0)} MB with 5,000 empty trailing columns per line`, ['check', wide], 'seconds', 1);
+    const fixtures = path.join(root, 'test', 'fixtures', 'templates');
+    const t4 = path.join(fixtures, 'table.csv');
+    const o = path.join(dir, 'out.xlsx');
+    child('template_fill_ms', 'leeway fill --template, 4 analytes', ['fill', '--table', t4, '--template', path.join(fixtures, 'printable.xlsx'), '--out', o, '--force'], '(info)');
+    child('template_stray_ms', 'the same template with one value at ZZ200000', ['fill', '--table', t4, '--template', path.join(fixtures, 'stray.xlsx'), '--out', o, '--force'], 'as above');
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
 }
 
 // --- bundle sizes (minified, without office.js)
