@@ -7,6 +7,7 @@
  * (stored as Excel stores add-in calls, see xlsx.ts) with their results cached.
  */
 import * as path from 'path';
+import { createHash } from 'crypto';
 import type ExcelJS from 'exceljs';
 import { UsageError } from './call';
 import type { Io } from './main';
@@ -86,7 +87,9 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   // Refuse an existing output before any work.
   checkOutput(out, force);
 
-  const imported = parseTableBytes(readBytes(tablePath, 'table'), { name: path.basename(tablePath), origin: path.resolve(tablePath), mapping: readMappings(o.values.get('map'), 'fill') });
+  const bytes = readBytes(tablePath, 'table');
+  const tableSha256 = createHash('sha256').update(bytes).digest('hex');
+  const imported = parseTableBytes(bytes, { name: path.basename(tablePath), origin: path.resolve(tablePath), mapping: readMappings(o.values.get('map'), 'fill') });
   if (!imported.ok) {
     for (const line of formatReport(imported)) io.err(line);
     io.err(`leeway fill: the table ${tablePath} has errors: nothing was written (see leeway check)`);
@@ -129,7 +132,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
     target = { kind: 'new-sheet', sheetName: ws.name };
   }
 
-  const planned = planFill({ table, rows: selection.rows, tier, z, mode, target, overwrite: o.flags.has('overwrite'), date, decimals });
+  const planned = planFill({ table, rows: selection.rows, tier, z, mode, target, overwrite: o.flags.has('overwrite'), date, decimals, tableSha256, writtenDecimals: imported.decimals });
   if (!planned.ok) {
     for (const p of planned.problems) io.err(`${p.where ? p.where + ': ' : ''}${p.message}`);
     io.err('leeway fill: nothing was written');

@@ -26,7 +26,7 @@ export type {
   TemplateTarget,
 } from './types';
 export { DERIVED_FIELDS } from './types';
-export { planFill, derivedFormula, derivedValue, shown, TITLE, TIER_CELL_LABEL, Z_CELL_LABEL } from './plan';
+export { planFill, derivedFormula, derivedValue, decimalsFormat, shown, NO_FINGERPRINT, TITLE, TIER_CELL_LABEL, Z_CELL_LABEL } from './plan';
 export { selectRows } from './select';
 export type { Selection } from './select';
 export { COLUMN_HEADERS, matchTemplateHeader } from './headers';

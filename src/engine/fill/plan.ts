@@ -21,7 +21,7 @@ import { TIERS } from '../tiers';
 import type { Tier } from '../tiers';
 import { VERSION } from '../version';
 import { rowKey } from '../table/parse';
-import type { VariationRow } from '../table/types';
+import type { NumericField, VariationRow } from '../table/types';
 import { a1, columnLetters, MAX_COLUMNS, MAX_ROWS } from './a1';
 import type { CellRef } from './a1';
 import { CAUTION, DEMO_MARKER, wrapText } from './caution';
@@ -52,6 +52,17 @@ export const TITLE = 'Leeway — analytical performance specifications';
 /** The labels beside a filled sheet's tier cell and z cell (the task pane finds them by these). */
 export const TIER_CELL_LABEL = 'Tier (whole sheet)';
 export const Z_CELL_LABEL = 'z (coverage factor)';
+
+/** What the block says when the caller has no fingerprint of the table file (the task pane keeps rows, not the file). */
+export const NO_FINGERPRINT = 'not recorded (imported in the pane)';
+
+/** The number format that shows `decimals` decimals ("0", "0.0", "0.00", …). */
+export function decimalsFormat(decimals: number): string {
+  return decimals === 0 ? '0' : `0.${'0'.repeat(decimals)}`;
+}
+
+/** More decimals than a double holds digits for are left to the cell's own format. */
+const MAX_SHOWN_DECIMALS = 15;
 
 /** Characters per line of the caution in the block. */
 const CAUTION_WIDTH = 95;
@@ -239,6 +250,7 @@ export function planFill(req: FillRequest): PlanResult {
   for (const [key, t] of Object.entries(req.rowTiers ?? {})) {
     if (!(TIERS as readonly string[]).includes(t)) problems.push({ where: '', message: `the tier for ${key.replace('\u0000', ' ')} must be optimum, desirable or minimum (got ${String(t)})` });
   }
+  if (req.tableSha256 !== undefined && !/^[0-9a-f]{64}$/.test(req.tableSha256)) problems.push({ where: '', message: `the table's SHA-256 must be 64 lower-case hex digits (got ${req.tableSha256})` });
   if (!/^\d{4}-\d{2}-\d{2}$/.test(req.date)) problems.push({ where: '', message: `date must be YYYY-MM-DD (got ${req.date})` });
   const decimals = req.decimals ?? 2;
   if (!(Number.isInteger(decimals) && decimals >= 0 && decimals <= 15)) problems.push({ where: '', message: `decimals must be a whole number from 0 to 15 (got ${decimals})` });
@@ -258,6 +270,9 @@ export function planFill(req: FillRequest): PlanResult {
     tableOrigin: req.table.origin,
     tableImported: req.table.importedAt,
     sources,
+    tableSha256: req.tableSha256 ?? null,
+    tableRows: req.table.rows.length,
+    rowsFilled: rows.length,
     tier: req.tier,
     z: req.z,
     date: req.date,
@@ -299,6 +314,8 @@ export function planFill(req: FillRequest): PlanResult {
   const pairs: Array<[string, string]> = [
     ['Table', req.table.name],
     ['Table source', req.table.origin || '(not recorded)'],
+    ['Table SHA-256', req.tableSha256 ?? (req.table.demo ? 'none: the built-in demo table is not a file' : NO_FINGERPRINT)],
+    ['Table rows', `${req.table.rows.length} in the table; ${rows.length} filled here`],
     ['Table imported', req.table.importedAt.slice(0, 10)],
     ['Data sources', summariseSources(sources)],
     ['Filled on', req.date],
@@ -330,7 +347,7 @@ export function planFill(req: FillRequest): PlanResult {
   }
 
   // Data rows.
-  const format = decimals === 0 ? '0' : `0.${'0'.repeat(decimals)}`;
+  const format = decimalsFormat(decimals);
   const placedRows: PlannedRow[] = [];
   for (const { row, at } of layout.placed) {
     const key = rowKey(row.analyte, row.specimen);
@@ -349,7 +366,8 @@ export function planFill(req: FillRequest): PlanResult {
         continue;
       }
       const content = inputContent(f, row, rowTiers[key]);
-      if (content) put(at, c.col, content, f === 'tier' ? 'row-tier' : 'input');
+      const written = content?.kind === 'number' ? req.writtenDecimals?.[key]?.[f as NumericField] : undefined;
+      if (content) put(at, c.col, content, f === 'tier' ? 'row-tier' : 'input', written !== undefined && written <= MAX_SHOWN_DECIMALS ? { format: decimalsFormat(written) } : {});
     }
   }
 
@@ -445,7 +463,7 @@ function inputContent(f: FillField, row: VariationRow, rowTier: Tier | undefined
 }
 
 function blockHeight(demo: boolean, derivedCount: number): number {
-  return 1 + (demo ? 1 : 0) + 2 + 7 + derivedCount + wrapText(CAUTION, CAUTION_WIDTH).length;
+  return 1 + (demo ? 1 : 0) + 2 + 9 + derivedCount + wrapText(CAUTION, CAUTION_WIDTH).length;
 }
 
 function newSheetLayout(rows: readonly VariationRow[], demo: boolean): Layout {

@@ -5,7 +5,7 @@
 import type { ErrorCode } from '../errors';
 import type { Tier } from '../tiers';
 import type { CellRef } from './a1';
-import type { Field, VariationRow, VariationTable } from '../table/types';
+import type { Field, VariationRow, VariationTable, WrittenDecimals } from '../table/types';
 
 /** "live": derived columns as LEEWAY formulas (with their results); "values": as numbers, the formula in each header's note. */
 export type FillMode = 'live' | 'values';
@@ -120,6 +120,18 @@ export interface FillRequest {
   readonly decimals?: number;
   /** Program version for the provenance; default src/engine/version.ts. */
   readonly version?: string;
+  /**
+   * SHA-256 of the table file, bytes as read (64 hex digits), so the sheet names one exact version
+   * of the table. Absent: the block says it was not recorded (a table kept in the task pane's
+   * library no longer has its file's bytes) or, for the built-in demo table, that there is no file.
+   */
+  readonly tableSha256?: string;
+  /**
+   * Decimals each input number was written with in the table file, by rowKey(analyte, specimen)
+   * (the importer's ImportResult.decimals): input cells show them ("14.0" stays 14.0). Absent:
+   * input numbers keep the cell's own format.
+   */
+  readonly writtenDecimals?: Readonly<Record<string, WrittenDecimals>>;
 }
 
 /** One column the plan fills. */
@@ -144,6 +156,11 @@ export interface Provenance {
   readonly tableOrigin: string;
   readonly tableImported: string;
   readonly sources: readonly string[];
+  /** SHA-256 of the table file's bytes (hex), or null when not recorded. */
+  readonly tableSha256: string | null;
+  /** Rows in the table, and rows this fill wrote. */
+  readonly tableRows: number;
+  readonly rowsFilled: number;
   readonly tier: Tier;
   readonly z: number;
   readonly date: string;
