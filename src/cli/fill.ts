@@ -14,7 +14,9 @@ import type { Io } from './main';
 import { one, readOptions } from './options';
 import { readBytes, checkRegularFile, checkOutput, writeWorkbookAtomically, today, newWorkbook } from './files';
 import { progressBar } from './progress';
-import { printSetup, readSnapshot, writePlan } from './xlsx';
+import { readSnapshot, writePlan } from './xlsx';
+import { planDocument, PAPERS } from './document';
+import type { Paper } from './document';
 import { parseTableBytes, acceptImport, formatProblem, formatReport } from '../engine/table';
 import type { HeaderMapping, Field } from '../engine/table';
 import { FIELDS } from '../engine/table';
@@ -26,7 +28,7 @@ import { Z_TOTAL_ERROR } from '../engine/coverage';
 
 export const FILL_USAGE = `  leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B]
               [--template X.xlsx [--sheet S] [--at A1]] [--overwrite] [--force] [--live]
-              [--date YYYY-MM-DD] [--decimals N] [--map HEADER=FIELD]
+              [--date YYYY-MM-DD] [--decimals N] [--map HEADER=FIELD] [--paper A4|Letter]
                                    fill a workbook from a variation table (values by default;
                                    --live writes LEEWAY formulas for the add-in)`;
 
@@ -47,9 +49,17 @@ export function readMappings(list: readonly string[] | undefined, command: strin
   return out;
 }
 
+/** --paper A4 (default) or Letter, any case. */
+export function readPaper(text: string | undefined, command: string): Paper {
+  if (text === undefined) return 'A4';
+  const found = PAPERS.find((p) => p.toLowerCase() === text.trim().toLowerCase());
+  if (!found) throw new UsageError(`${command}: --paper must be ${PAPERS.join(' or ')} (got ${text})`);
+  return found;
+}
+
 export async function fillCommand(args: string[], io: Io): Promise<number> {
   const o = readOptions('fill', args, {
-    values: ['table', 'out', 'tier', 'z', 'analytes', 'template', 'sheet', 'at', 'date', 'decimals', 'map'],
+    values: ['table', 'out', 'tier', 'z', 'analytes', 'template', 'sheet', 'at', 'date', 'decimals', 'map', 'paper'],
     flags: ['overwrite', 'force', 'live'],
     repeatable: ['map', 'analytes'],
   });
@@ -75,6 +85,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   if (!(Number.isInteger(decimals) && decimals >= 0 && decimals <= 15)) throw new UsageError(`fill: --decimals must be a whole number from 0 to 15 (got ${decText})`);
   const date = one(o, 'date') ?? today();
   if (!/^\d{4}-\d{2}-\d{2}$/.test(date)) throw new UsageError(`fill: --date must be YYYY-MM-DD (got ${date})`);
+  const paper = readPaper(one(o, 'paper'), 'fill');
   const template = one(o, 'template');
   const sheetName = one(o, 'sheet');
   const atText = one(o, 'at');
@@ -147,7 +158,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   }
   const bar = progressBar('filling');
   writePlan(ws, plan, (d, t) => bar.update(d, t));
-  if (target.kind === 'new-sheet') printSetup(ws);
+  if (target.kind === 'new-sheet') planDocument(ws, plan, { paper }).finish();
   bar.done();
   await writeWorkbookAtomically(wb, out, force);
   io.out(summary(out, plan));

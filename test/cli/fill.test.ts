@@ -5,6 +5,7 @@
  */
 import * as fs from 'fs';
 import * as path from 'path';
+import { createHash } from 'crypto';
 import ExcelJS from 'exceljs';
 import { leeway, tempDir, strayFiles, TABLES } from './support';
 import { planFill, CAUTION } from '../../src/engine/fill';
@@ -27,8 +28,11 @@ async function sheetOf(file: string, name?: string): Promise<ExcelJS.Worksheet> 
 }
 
 function expectedPlan(mode: 'live' | 'values'): FillPlan {
-  const table = acceptImport(parseTableText(fs.readFileSync(GOOD, 'utf8'), { name: 'good.csv', origin: path.resolve(GOOD) }));
-  const r = planFill({ table, tier: 'desirable', z: 1.65, mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE });
+  const imported = parseTableText(fs.readFileSync(GOOD, 'utf8'), { name: 'good.csv', origin: path.resolve(GOOD) });
+  const table = acceptImport(imported);
+  // The fill names the table file by its SHA-256 (Node's crypto over the file's bytes).
+  const tableSha256 = createHash('sha256').update(fs.readFileSync(GOOD)).digest('hex');
+  const r = planFill({ table, tier: 'desirable', z: 1.65, mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE, tableSha256, writtenDecimals: imported.decimals });
   if (!r.ok) throw new Error('plan failed');
   return r.plan;
 }
