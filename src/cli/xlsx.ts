@@ -159,8 +159,3 @@ export function readSnapshot(ws: ExcelJS.Worksheet): SheetSnapshot {
   }
   return { name: ws.name, origin: { row: 1, col: 1 }, cells };
 }
-
-/** Page setup for readable printing: landscape, one page wide. */
-export function printSetup(ws: ExcelJS.Worksheet): void {
-  ws.pageSetup = { ...ws.pageSetup, orientation: 'landscape', fitToPage: true, fitToWidth: 1, fitToHeight: 0, paperSize: 9 };
-}

@@ -54,7 +54,7 @@ export const SIGN_OFF_ROLES = ['Prepared by', 'Reviewed by', 'Approved by'] as c
 export const SIGN_OFF_FIELDS = ['Name', 'Signature', 'Date'] as const;
 export const SIGN_OFF_TITLE = 'Sign-off';
 /** Characters a line of the caution holds. */
-export const CAUTION_LINE = 90;
+export const CAUTION_LINE = 64;
 
 /** Widest a wrapped long-text column gets, and the widest any column gets before it wraps. */
 export const WRAP_WIDTH = 36;
@@ -420,7 +420,7 @@ export class DocumentSheet {
     }
     let block = 0;
     for (let r = first; r <= last; r++) block += heights[r];
-    if (used + block > page * 0.9 && first > 1) {
+    if (used + block > page * 0.95 && first > 1) {
       this.ws.getRow(first - 1).addPageBreak();
       return true;
     }
