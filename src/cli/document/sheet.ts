@@ -62,6 +62,9 @@ export const MAX_WIDTH = 60;
 const MIN_WIDTH = 5;
 /** Header texts wrap into at most about this many lines before their column widens. */
 const HEADER_LINES = 3;
+/** The narrowest printed width (units) a sheet gets: room for the sign-off lines. */
+const MIN_PRINT_UNITS = 80;
+const EXTRA_COLUMN = 12;
 /** Points of a sign-off row: room to sign. */
 const SIGN_ROW_POINTS = 30;
 const FORMULA_LIKE = /^[=+\-@]/;
@@ -231,12 +234,15 @@ export class DocumentSheet {
     this.finished = true;
     const lastContentRow = this.lastUsedRow();
     this.row = lastContentRow + 2;
+    let lastCol = Math.max(4, this.lastTableCol());
+    const widths = this.setWidths(lastCol);
+    lastCol = this.widenForSignOff(lastCol, widths);
     if (!this.hasCaution && !this.sheetHasCaution()) {
-      this.caution();
+      const room = widths.slice(1, lastCol + 1).reduce((a, b) => a + b, 0) - CELL_PADDING;
+      this.hasCaution = true;
+      for (const line of linesWithin(CAUTION, room)) this.text(line, { italic: true });
       this.row++;
     }
-    const lastCol = Math.max(4, this.lastTableCol());
-    const widths = this.setWidths(lastCol);
     const signOff = this.signOff(lastCol, widths);
     this.layOutSpans(lastCol, widths);
     const heights = this.setHeights(lastCol, widths);
@@ -248,6 +254,19 @@ export class DocumentSheet {
     applyPageSetup(this.ws, { paper, orientation, lastCol, lastRow, titleRow: this.titleRow });
     applyHeaderFooter(this.ws, { title: this.options.title, demo: this.options.demo, date: this.options.date, program: `Leeway ${this.options.version ?? VERSION}` });
     return { lastCol, lastRow, orientation, paper, titleRow: this.titleRow, signOffRow: signOff.first, widths: widths.slice(1, lastCol + 1), contentPoints, scale: fitScale(contentPoints, paper, orientation), pageBreakBefore: pageBreak };
+  }
+
+  /** A sheet narrower than MIN_PRINT_UNITS gets empty columns on the right, so the sign-off lines are long enough to sign on. */
+  private widenForSignOff(lastCol: number, widths: number[]): number {
+    let total = widths.slice(1, lastCol + 1).reduce((a, b) => a + b, 0);
+    let c = lastCol;
+    while (total < MIN_PRINT_UNITS) {
+      c++;
+      widths[c] = EXTRA_COLUMN;
+      this.ws.getColumn(c).width = EXTRA_COLUMN;
+      total += EXTRA_COLUMN;
+    }
+    return c;
   }
 
   private lastUsedRow(): number {
@@ -474,6 +493,21 @@ function spanWidth(ws: ExcelJS.Worksheet, row: number, from: number, lastCol: nu
     w += widths[c];
   }
   return w;
+}
+
+/** Text split at spaces into lines each at most `units` wide (a longer word stays whole on its line). */
+export function linesWithin(text: string, units: number, style: TextStyle = {}): string[] {
+  const lines: string[] = [];
+  let line = '';
+  for (const word of text.split(/\s+/).filter(Boolean)) {
+    const next = line === '' ? word : `${line} ${word}`;
+    if (line !== '' && textUnits(next, style) > units) {
+      lines.push(line);
+      line = word;
+    } else line = next;
+  }
+  if (line) lines.push(line);
+  return lines;
 }
 
 /** Every cell of a row of several lines set to the top, so a row reads from its first line. */
