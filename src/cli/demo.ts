@@ -180,7 +180,7 @@ interface DemoContext {
 
 /** A new sheet of the demo as a document, with its banner: title, demo marker, the scenario, the caution. */
 function demoSheet(ctx: DemoContext, name: string, title: string): DocumentSheet {
-  const doc = new DocumentSheet(ctx.wb.addWorksheet(name), { title: `${title} — DEMO`, demo: true, date: ctx.date, paper: ctx.paper });
+  const doc = new DocumentSheet(ctx.wb.addWorksheet(name), { title: `${title} — DEMO`, pageTitle: `Leeway demo — ${name}`, demo: true, date: ctx.date, paper: ctx.paper });
   doc.title(`${title} — DEMO`);
   doc.demoMarker();
   doc.text(`${DEMO_LAB}: bringing ${DEMO_ANALYSERS.candidate} into service beside ${DEMO_ANALYSERS.current}. Leeway ${VERSION}.`);
@@ -214,7 +214,7 @@ function specificationsSheet(ctx: DemoContext): void {
   const planned = planFill({ table, tier: 'desirable', z: 1.65, mode: ctx.mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: ctx.date, writtenDecimals });
   if (!planned.ok) throw new Error(planned.problems.map((p) => p.message).join('; '));
   writePlan(ws, planned.plan);
-  planDocument(ws, planned.plan, { paper: ctx.paper }).finish();
+  planDocument(ws, planned.plan, { paper: ctx.paper, pageTitle: 'Leeway demo — Specifications' }).finish();
 }
 
 interface RowOut {

@@ -157,7 +157,7 @@ describe('leeway demo: every sheet is a printed document', () => {
     expect(wb.worksheets).toHaveLength(8);
     for (const ws of wb.worksheets) {
       expect(ws.pageSetup).toMatchObject({ paperSize: 9, fitToPage: true, fitToWidth: 1, fitToHeight: 0 });
-      expect(ws.headerFooter.oddHeader).toMatch(new RegExp(`— DEMO&R${DEMO_MARKER}$`));
+      expect(ws.headerFooter.oddHeader).toBe(`&LLeeway demo — ${ws.name}&R${DEMO_MARKER}`);
       expect(ws.headerFooter.oddFooter).toBe(`&L${DATE}&CPage &P of &N&RLeeway ${VERSION}`);
       const title = Number(/^\$?(\d+):/.exec(ws.pageSetup.printTitlesRow!)![1]);
       expect(ws.getCell(title, 1).value).toBe('Analyte');
@@ -185,6 +185,12 @@ describe('leeway demo: every sheet is a printed document', () => {
 describe('the layer’s parts', () => {
   test('header and footer codes: an ampersand in a title is doubled', () => {
     expect(headerFooterStrings({ title: 'QC & EQA', demo: false, date: DATE, program: 'Leeway 1' })).toEqual({ header: '&LQC && EQA', footer: `&L${DATE}&CPage &P of &N&RLeeway 1` });
+  });
+
+  test('a demo title too long to sit beside the demo marker puts the marker on a second line', () => {
+    const t = { title: 'x'.repeat(60), demo: true, date: DATE, program: 'Leeway 1' };
+    expect(headerFooterStrings(t, 200).header).toBe(`&L${'x'.repeat(60)}&R${DEMO_MARKER}`);
+    expect(headerFooterStrings(t, 90).header).toBe(`&L${'x'.repeat(60)}\n${DEMO_MARKER}`);
   });
 
   test('orientation: portrait while the sheet fits the portrait width at 85 % or more, else landscape', () => {

@@ -82,6 +82,9 @@ export function wrappedLines(text: string, width: number, style: TextStyle = {})
   return Math.max(1, lines);
 }
 
+/** Points one column-width unit takes on paper at 100 % (7 pixels at 96 pixels an inch). */
+export const POINTS_PER_UNIT = 5.25;
+
 /** Points a column of `units` width takes on paper at 100 % (Excel: 7 pixels a unit plus 5, at 96 pixels an inch). */
 export function columnPoints(units: number): number {
   return (Math.round(7 * units) + 5) * 0.75;

@@ -6,6 +6,7 @@
 import type ExcelJS from 'exceljs';
 import { columnLetters } from '../../engine/fill';
 import { DEMO_MARKER } from '../../engine/caution';
+import { textUnits } from './measure';
 
 export type Paper = 'A4' | 'Letter';
 
@@ -86,14 +87,19 @@ function literal(t: string): string {
   return t.replace(/&/g, '&&');
 }
 
-/** The page header and footer strings (Excel's codes: &L &C &R sections, &P page, &N pages). */
-export function headerFooterStrings(t: HeaderFooterText): { header: string; footer: string } {
-  const header = `&L${literal(t.title)}${t.demo ? `&R${literal(DEMO_MARKER)}` : ''}`;
+/**
+ * The page header and footer strings (Excel's codes: &L &C &R sections, &P page, &N pages).
+ * When the title and the demo marker would not fit side by side in `widthUnits` (the printed
+ * width in column units), the marker goes on a second line under the title.
+ */
+export function headerFooterStrings(t: HeaderFooterText, widthUnits = Infinity): { header: string; footer: string } {
+  const sideBySide = textUnits(t.title) + textUnits(DEMO_MARKER) + 4 <= widthUnits;
+  const header = !t.demo ? `&L${literal(t.title)}` : sideBySide ? `&L${literal(t.title)}&R${literal(DEMO_MARKER)}` : `&L${literal(t.title)}\n${literal(DEMO_MARKER)}`;
   const footer = `&L${literal(t.date)}&CPage &P of &N&R${literal(t.program)}`;
   return { header, footer };
 }
 
-export function applyHeaderFooter(ws: ExcelJS.Worksheet, t: HeaderFooterText): void {
-  const { header, footer } = headerFooterStrings(t);
+export function applyHeaderFooter(ws: ExcelJS.Worksheet, t: HeaderFooterText, widthUnits?: number): void {
+  const { header, footer } = headerFooterStrings(t, widthUnits);
   ws.headerFooter = { differentFirst: false, differentOddEven: false, oddHeader: header, oddFooter: footer };
 }

@@ -12,9 +12,9 @@ const SPANNING = new Set(['title', 'demo', 'provenance', 'caution']);
 const LONG_TEXT = new Set(['source', 'note']);
 
 /** A DocumentSheet over a sheet that writePlan() has filled (a new sheet); call finish() on it. */
-export function planDocument(ws: ExcelJS.Worksheet, plan: FillPlan, options: { paper?: Paper } = {}): DocumentSheet {
+export function planDocument(ws: ExcelJS.Worksheet, plan: FillPlan, options: { paper?: Paper; pageTitle?: string } = {}): DocumentSheet {
   const p = plan.provenance;
-  const doc = new DocumentSheet(ws, { title: p.demo ? `${TITLE} — DEMO` : TITLE, demo: p.demo, date: p.date, paper: options.paper, version: p.version });
+  const doc = new DocumentSheet(ws, { title: p.demo ? `${TITLE} — DEMO` : TITLE, pageTitle: options.pageTitle, demo: p.demo, date: p.date, paper: options.paper, version: p.version });
   for (const c of plan.cells) if (SPANNING.has(c.role)) doc.markSpan(c.row, c.col);
   doc.markHeader(plan.headerRow);
   doc.markCaution();

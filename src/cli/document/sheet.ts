@@ -12,7 +12,7 @@ import type ExcelJS from 'exceljs';
 import { CAUTION, DEMO_MARKER } from '../../engine/caution';
 import { VERSION } from '../../engine/version';
 import { wrapText } from '../../engine/fill';
-import { CELL_PADDING, LINE_POINTS, columnPoints, longestWord, textUnits, widestLine, wrappedLines } from './measure';
+import { CELL_PADDING, LINE_POINTS, POINTS_PER_UNIT, columnPoints, longestWord, textUnits, widestLine, wrappedLines } from './measure';
 import type { TextStyle } from './measure';
 import { applyHeaderFooter, applyPageSetup, chooseOrientation, fitScale, printable } from './page';
 import type { Orientation, Paper } from './page';
@@ -21,8 +21,10 @@ import type { Orientation, Paper } from './page';
 export type DocValue = number | string | boolean | null | undefined | { readonly error: string };
 
 export interface DocumentOptions {
-  /** The document's title, printed in the page header of every page. */
+  /** The document's title, printed in the page header of every page (unless pageTitle is given). */
   readonly title: string;
+  /** A shorter title for the page header. */
+  readonly pageTitle?: string;
   /** Invented data: the page header carries the demo marker too. */
   readonly demo: boolean;
   /** The date the document is of (a fill's date), YYYY-MM-DD: printed in the footer. */
@@ -252,7 +254,9 @@ export class DocumentSheet {
     const lastRow = signOff.last;
     const pageBreak = this.keepSignOffTogether(signOff.first, lastRow, heights, contentPoints, paper, orientation);
     applyPageSetup(this.ws, { paper, orientation, lastCol, lastRow, titleRow: this.titleRow });
-    applyHeaderFooter(this.ws, { title: this.options.title, demo: this.options.demo, date: this.options.date, program: `Leeway ${this.options.version ?? VERSION}` });
+    // The page header's text is not scaled with the sheet: its room is the printable width in units at 100 %.
+    const headerUnits = printable(paper, orientation).width / POINTS_PER_UNIT;
+    applyHeaderFooter(this.ws, { title: this.options.pageTitle ?? this.options.title, demo: this.options.demo, date: this.options.date, program: `Leeway ${this.options.version ?? VERSION}` }, headerUnits);
     return { lastCol, lastRow, orientation, paper, titleRow: this.titleRow, signOffRow: signOff.first, widths: widths.slice(1, lastCol + 1), contentPoints, scale: fitScale(contentPoints, paper, orientation), pageBreakBefore: pageBreak };
   }
 
