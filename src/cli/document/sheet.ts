@@ -60,10 +60,13 @@ export const CAUTION_LINE = 64;
 
 /** Widest a wrapped long-text column gets, and the widest any column gets before it wraps. */
 export const WRAP_WIDTH = 36;
-export const MAX_WIDTH = 60;
+export const MAX_WIDTH = 72;
 const MIN_WIDTH = 5;
+const EXCELJS_DEFAULT_WIDTH = 9;
 /** Header texts wrap into at most about this many lines before their column widens. */
 const HEADER_LINES = 3;
+/** A header text up to this wide stays on one line. */
+const SHORT_HEADER = 14;
 /** The narrowest printed width (units) a sheet gets: room for the sign-off lines. */
 const MIN_PRINT_UNITS = 80;
 const EXTRA_COLUMN = 12;
@@ -312,7 +315,8 @@ export class DocumentSheet {
         if (t === '') return;
         const style = styleOf(cell);
         if (this.headers.has(r)) {
-          header[c] = Math.max(header[c], longestWord(t, style) + CELL_PADDING, textUnits(t, style) / HEADER_LINES + CELL_PADDING);
+          const whole = textUnits(t, style);
+          header[c] = Math.max(header[c], (whole <= SHORT_HEADER ? whole : Math.max(longestWord(t, style), whole / HEADER_LINES)) + CELL_PADDING);
         } else {
           content[c] = Math.max(content[c], widestLine(t, style) + CELL_PADDING);
           words[c] = Math.max(words[c], longestWord(t, style) + CELL_PADDING);
@@ -329,6 +333,9 @@ export class DocumentSheet {
         w = Math.max(MAX_WIDTH, header[c]);
       }
       w = Math.ceil(w * 2) / 2;
+      // exceljs leaves a column of width 9 (its default) out of the file, and a program reading the
+      // file then gives it its own default (8.43 in Excel): keep clear of it.
+      if (w === EXCELJS_DEFAULT_WIDTH) w += 0.5;
       widths.push(w);
       this.ws.getColumn(c).width = w;
     }
