@@ -85,7 +85,11 @@ export function wrappedLines(text: string, width: number, style: TextStyle = {})
 /** Points one column-width unit takes on paper at 100 % (7 pixels at 96 pixels an inch). */
 export const POINTS_PER_UNIT = 5.25;
 
-/** Points a column of `units` width takes on paper at 100 % (Excel: 7 pixels a unit plus 5, at 96 pixels an inch). */
+/**
+ * Points a column of `units` width takes on paper at 100 %: Excel's pixels for a stored width,
+ * truncate((256·w + truncate(128/7))/256 · 7) with a 7-pixel digit, at 96 pixels an inch
+ * (ECMA-376 Part 1, col width, from memory).
+ */
 export function columnPoints(units: number): number {
-  return (Math.round(7 * units) + 5) * 0.75;
+  return Math.trunc(((256 * units + Math.trunc(128 / 7)) / 256) * 7) * 0.75;
 }

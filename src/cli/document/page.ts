@@ -41,9 +41,9 @@ export function chooseOrientation(contentPoints: number, paper: Paper): Orientat
   return contentPoints * PORTRAIT_MIN_SCALE <= printable(paper, 'portrait').width ? 'portrait' : 'landscape';
 }
 
-/** The scale fit-to-width gives (1 when the sheet is narrower than the page). */
+/** The scale fit-to-width gives (1 when the sheet is narrower than the page), a whole percent rounded down as Excel sets it. */
 export function fitScale(contentPoints: number, paper: Paper, orientation: Orientation): number {
-  return Math.min(1, printable(paper, orientation).width / contentPoints);
+  return Math.min(1, Math.floor((100 * printable(paper, orientation).width) / contentPoints) / 100);
 }
 
 export interface PageOptions {

@@ -194,7 +194,8 @@ export class DocumentSheet {
     if (value === null || value === undefined) return;
     const cell = this.ws.getCell(row, col);
     cell.value = value as ExcelJS.CellValue;
-    if (typeof value === 'string' && FORMULA_LIKE.test(value)) cell.alignment = { horizontal: 'left', indent: 1 };
+    // Text set in by one character: it never touches a right-aligned number in the column before.
+    if (typeof value === 'string' && (col > 1 || FORMULA_LIKE.test(value))) cell.alignment = { horizontal: 'left', indent: 1 };
     if (opts.format && typeof value === 'number') cell.numFmt = opts.format;
     if (opts.bold) cell.font = { ...(cell.font ?? {}), bold: true };
   }
@@ -318,16 +319,17 @@ export class DocumentSheet {
           const whole = textUnits(t, style);
           header[c] = Math.max(header[c], (whole <= SHORT_HEADER ? whole : Math.max(longestWord(t, style), whole / HEADER_LINES)) + CELL_PADDING);
         } else {
-          content[c] = Math.max(content[c], widestLine(t, style) + CELL_PADDING);
-          words[c] = Math.max(words[c], longestWord(t, style) + CELL_PADDING);
+          // Wrapped columns get an indent below; other cells may carry one already.
+          const indent = this.wrapCols.has(c) ? INDENT_UNITS : (cell.alignment?.indent ?? 0) * INDENT_UNITS;
+          content[c] = Math.max(content[c], widestLine(t, style) + CELL_PADDING + indent);
+          words[c] = Math.max(words[c], longestWord(t, style) + CELL_PADDING + indent);
         }
       });
     });
     const widths = [0];
     for (let c = 1; c <= lastCol; c++) {
-      const indent = this.wrapCols.has(c) ? INDENT_UNITS : 0;
-      let w = Math.max(content[c] + indent, header[c], MIN_WIDTH);
-      if (this.wrapCols.has(c) && w > WRAP_WIDTH) w = Math.max(WRAP_WIDTH, Math.min(words[c] + indent, MAX_WIDTH), header[c]);
+      let w = Math.max(content[c], header[c], MIN_WIDTH);
+      if (this.wrapCols.has(c) && w > WRAP_WIDTH) w = Math.max(WRAP_WIDTH, Math.min(words[c], MAX_WIDTH), header[c]);
       else if (w > MAX_WIDTH) {
         this.wrapCols.add(c);
         w = Math.max(MAX_WIDTH, header[c]);
