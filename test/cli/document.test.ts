@@ -174,6 +174,24 @@ describe('leeway demo: every sheet is a printed document', () => {
     }
   });
 
+  test('each results row’s formula points at its own analyte’s raw data rows (the layout moved them)', () => {
+    for (const [name, col] of [['Replication', 11], ['EQA', 5], ['Comparison', 11]] as const) {
+      const ws = wb.getWorksheet(name)!;
+      const top = rowOf(ws, 'Analyte') + 1;
+      let rows = 0;
+      for (let r = top; typeof ws.getCell(r, 1).value === 'string'; r++) {
+        rows++;
+        const m = /\(([A-Z])(\d+):[A-Z](\d+),/.exec(String(ws.getCell(r, col).value))!;
+        const [first, last] = [Number(m[2]), Number(m[3])];
+        for (let k = first; k <= last; k++) expect(ws.getCell(k, 1).value).toBe(ws.getCell(r, 1).value);
+        expect(ws.getCell(first - 1, 1).value).not.toBe(ws.getCell(r, 1).value);
+        expect(ws.getCell(last + 1, 1).value).not.toBe(ws.getCell(r, 1).value);
+        expect(typeof ws.getCell(first, m[1].charCodeAt(0) - 64).value).toBe('number');
+      }
+      expect(rows).toBe(12);
+    }
+  });
+
   test('the demo table’s CVs show one decimal (24.0, 58.0)', () => {
     const ws = wb.getWorksheet('Specifications')!;
     const r = rowOf(ws, 'Hexolane');
