@@ -189,7 +189,10 @@ export class DocumentSheet {
     return r;
   }
 
-  /** One cell anywhere (a table filled after the rows below it). Text starting with = + - @ is stored as text, set left. */
+  /**
+   * One cell anywhere (a table filled after the rows below it). Text is stored as text ("=…"
+   * included) and, after the first column or when it looks like a formula, set in by one character.
+   */
   put(row: number, col: number, value: DocValue, opts: { format?: string; bold?: boolean } = {}): void {
     if (value === null || value === undefined) return;
     const cell = this.ws.getCell(row, col);
@@ -438,8 +441,9 @@ export class DocumentSheet {
 
   /**
    * A manual page break before the sign-off block when it would otherwise start near the foot of
-   * a page and be split. The estimate uses the row heights set here and the fit-to-width scale;
-   * a margin of a tenth of a page covers the difference between programs' column widths.
+   * a page and be split. The estimate uses the row heights set here and Excel's fit-to-width
+   * scale; a twentieth of a page is kept in reserve. Programs that draw the sheet in a wider
+   * font than Excel (see docs/reference/printing.md) fit more rows and may not need the break.
    */
   private keepSignOffTogether(first: number, last: number, heights: number[], contentPoints: number, paper: Paper, orientation: Orientation): boolean {
     const scale = fitScale(contentPoints, paper, orientation);
