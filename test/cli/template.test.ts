@@ -164,7 +164,8 @@ describe.each(['lab.xlsx', 'lab-libreoffice.xlsx'])('a default fill of %s', (fil
     const tierRow = [...p.values].find(([, v]) => v === 'Tier (whole sheet)')![0].slice(1);
     expect(p.values.get(`B${tierRow}`)).toBe('desirable');
     expect(p.values.get(`B${Number(tierRow) + 1}`)).toBe(1.65);
-    expect(p.values.get(`B${[...p.values].find(([, v]) => v === 'Table rows')![0].slice(1)}`)).toBe('4');
+    // The table has 4 rows; the template lists 2 of them (rows 7 and 8), so 2 were filled.
+    expect(p.values.get(`B${[...p.values].find(([, v]) => v === 'Table rows')![0].slice(1)}`)).toBe('4 in the table; 2 filled here');
     expect(flat).toContain(CAUTION);
     // Two columns of 18 and 40 characters: every value line fits its column.
     for (const t of colB) expect(t.length).toBeLessThanOrEqual(38);
@@ -206,6 +207,17 @@ describe('a template made by exceljs (built here): notes, validation, a defined 
     expect(v.getCell('A3').note).toBe('Invented note on the header');
     // The title, wrapped to the four columns' width (4 × 8.43 characters).
     expect(`${v.getCell('A6').value} ${v.getCell('A7').value}`).toBe('Leeway — analytical performance specifications');
+  });
+});
+
+describe('page set-up', () => {
+  test('--paper is refused with a template: the template keeps its own page set-up', async () => {
+    const dir = tempDir('paper');
+    const out = path.join(dir, 'filled.xlsx');
+    const r = await leeway('fill', '--table', TABLE, '--template', path.join(FIXTURES, 'lab.xlsx'), '--out', out, '--paper', 'Letter');
+    expect(r.code).not.toBe(0);
+    expect(r.err.join('\n')).toMatch(/--paper is for a new workbook/);
+    expect(fs.existsSync(out)).toBe(false);
   });
 });
 
@@ -400,7 +412,7 @@ describe('printed: LibreOffice renders a filled template to PDF', () => {
     expect(page1).toMatch(/Allowable\s+Allowable\s+total error/);
     expect(page1).toMatch(/Arvelin\s+Serum\s+5\.7\s+6\.9\s+2\.85\s+2\.24\s+6\.94/);
     // The block, with whole labels and the caution's last words.
-    for (const t of ['Leeway — analytical performance specifications', 'Tier (whole sheet)', 'z (coverage factor)', 'desirable', 'Table: table.csv', 'Table file SHA-256:', 'Filled on: 2026-02-03', `Program: Leeway ${VERSION}`, 'critically appraised source.']) {
+    for (const t of ['Leeway — analytical performance specifications', 'Tier (whole sheet)', 'z (coverage factor)', 'desirable', 'Table: table.csv', 'Table SHA-256:', 'Filled on: 2026-02-03', `Program: Leeway ${VERSION}`, 'critically appraised source.']) {
       expect(page1).toContain(t);
     }
     const words = page1.replace(/\s+/g, ' ');

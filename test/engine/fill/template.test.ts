@@ -6,7 +6,7 @@
  * docs/reference/templates.md), checked cell by cell. The default column width of 8.43
  * characters is common practice, no source.
  */
-import { planFill, findHeaderRow, formatTemplateReport, PROVENANCE_SHEET, CAUTION } from '../../../src/engine/fill';
+import { planFill, findHeaderRow, formatTemplateReport, PROVENANCE_SHEET, CAUTION, NO_FINGERPRINT } from '../../../src/engine/fill';
 import type { FillPlan, FillRequest, SheetCell, SheetSnapshot, TemplateTarget } from '../../../src/engine/fill';
 import type { VariationRow, VariationTable } from '../../../src/engine/table';
 import { evaluate } from '../../../src/registry';
@@ -307,6 +307,27 @@ describe('where the provenance goes', () => {
     const s = sheet({ A1: 'Analyte', B1: 'CVI %', A2: 'Sodium' }, { printArea: [{ top: 1, left: 1, bottom: 2, right: 2 }] });
     const p = plan([row('Sodium', '', 0.5, 0.7)], { sheet: s });
     expect(p.template.notes.join('\n')).toMatch(/print area \(A1:B2\) leaves out the provenance block/);
+  });
+});
+
+describe('the provenance and the written decimals, as on a new sheet', () => {
+  const small = (): SheetSnapshot => sheet({ A1: 'Analyte', B1: 'Specimen', C1: 'CVI %', D1: 'CVG %', A2: 'Sodium', B2: 'Serum' });
+  const blockText = (p: FillPlan): string =>
+    p.cells
+      .filter((c) => c.col === 1 && c.row >= 4 && c.content.kind === 'text')
+      .map((c) => (c.content.kind === 'text' ? c.content.text : ''))
+      .join(' ');
+
+  test('the block counts the table rows the template received, and says so when the fill has no SHA-256 of the table file (the pane)', () => {
+    const rows = [row('Sodium', 'Serum', 0.5, 0.7), row('Chloride', 'Serum', 1.1, 1.3)];
+    const p = plan(rows, { sheet: small() });
+    expect(p.provenance).toMatchObject({ tableSha256: null, tableRows: 2, rowsFilled: 1 });
+    const text = blockText(p).replace(/\s+/g, ' ');
+    expect(text).toContain(`Table SHA-256: ${NO_FINGERPRINT}`);
+    expect(text).toContain('Table rows: 2 in the table; 1 filled here');
+    // Appended rows count as filled.
+    const appended = plan(rows, { sheet: small(), append: true });
+    expect(appended.provenance.rowsFilled).toBe(2);
   });
 });
 
