@@ -210,7 +210,40 @@ describe('a template made by exceljs (built here): notes, validation, a defined 
   });
 });
 
-describe('page set-up', () => {
+describe('page set-up, and numbers as the table file writes them', () => {
+  test('a General cell shows 14.0 and 6.90 as written; a cell the lab formatted keeps its format; 12.4 needs no format; the block names the file by its SHA-256', async () => {
+    const dir = tempDir('decimals');
+    const csv = path.join(dir, 'written.csv');
+    fs.writeFileSync(csv, 'analyte,specimen,unit,cvi,cvg,source\nArvelin,Serum,mmol/L,14.0,6.90,Invented for tests (2026-01)\nBrontase,Serum,U/L,12.4,18.10,Invented for tests (2026-01)\n');
+    const tpl = path.join(dir, 'template.xlsx');
+    const wb = new ExcelJS.Workbook();
+    const ws = wb.addWorksheet('Verification');
+    ws.getRow(1).values = ['Analyte', 'Specimen', 'CVI %', 'CVG %'];
+    ws.getRow(2).values = ['Arvelin', 'Serum'];
+    ws.getRow(3).values = ['Brontase', 'Serum'];
+    // The lab's own format on one input cell.
+    ws.getCell('D3').numFmt = '0.000';
+    await wb.xlsx.writeFile(tpl);
+    const out = path.join(dir, 'filled.xlsx');
+    const r = await leeway('fill', '--table', csv, '--template', tpl, '--out', out, '--date', DATE);
+    expect(r.err).toEqual([]);
+    expect(r.code).toBe(0);
+    const back = new ExcelJS.Workbook();
+    await back.xlsx.readFile(out);
+    const v = back.getWorksheet('Verification')!;
+    expect([v.getCell('C2').value, v.getCell('C2').numFmt]).toEqual([14, '0.0']);
+    expect([v.getCell('D2').value, v.getCell('D2').numFmt]).toEqual([6.9, '0.00']);
+    // 12.4 in General already shows as written: no format is added.
+    expect(v.getCell('C3').value).toBe(12.4);
+    expect(v.getCell('C3').numFmt ?? 'General').toBe('General');
+    expect([v.getCell('D3').value, v.getCell('D3').numFmt]).toEqual([18.1, '0.000']);
+    const sha = createHash('sha256').update(fs.readFileSync(csv)).digest('hex');
+    const block: string[] = [];
+    v.eachRow((row) => row.eachCell((c) => typeof c.value === 'string' && block.push(c.value)));
+    expect(block.join('')).toContain(sha);
+    expect(block.join(' ')).toContain('Table rows: 2 in the table; 2 filled here');
+  });
+
   test('--paper is refused with a template: the template keeps its own page set-up', async () => {
     const dir = tempDir('paper');
     const out = path.join(dir, 'filled.xlsx');

@@ -354,11 +354,35 @@ function inputContent(f: FillField, row: VariationRow, rowTier: Tier | undefined
   }
 }
 
-/** The number format of an input number written with a known count of decimals ("14.0" → "0.0"), or none (the cell's own format). */
-function writtenFormat(req: FillRequest, key: string, f: FillField, content: CellContent): { format?: string } {
+/**
+ * The number format of an input number written with a known count of decimals ("14.0" → "0.0"),
+ * or none (the cell's own format). On a template (`onlyWhereShown`) the format is planned only
+ * where it changes what the page shows: a General cell already shows 5.7 as 5.7, but 14.0 as 14,
+ * so only the second gets a format, and the lab's styles part changes only where it must. A
+ * template cell that has a format of its own keeps it: the command line's package writer applies a
+ * planned format only over General (the task pane has no written decimals to pass: its library
+ * keeps numbers, not the file's text).
+ */
+function writtenFormat(req: FillRequest, key: string, f: FillField, content: CellContent, onlyWhereShown = false): { format?: string } {
   if (content.kind !== 'number') return {};
   const written = req.writtenDecimals?.[key]?.[f as NumericField];
-  return written !== undefined && written <= MAX_SHOWN_DECIMALS ? { format: decimalsFormat(written) } : {};
+  if (written === undefined || written > MAX_SHOWN_DECIMALS) return {};
+  if (onlyWhereShown && generalShows(content.value, written)) return {};
+  return { format: decimalsFormat(written) };
+}
+
+/**
+ * True when a cell formatted General certainly shows `x` with exactly `decimals` decimals: its
+ * shortest decimal form has them, no exponent, and at most 10 significant digits (General shows
+ * up to 11 characters in a column of the default width; common practice, no source). When in doubt
+ * false, and the format is written.
+ */
+function generalShows(x: number, decimals: number): boolean {
+  const s = String(Math.abs(x));
+  if (/e/i.test(s)) return false;
+  const [whole, fraction = ''] = s.split('.');
+  const digits = (whole.replace(/^0+/, '') + fraction).replace(/^0+/, '').length;
+  return digits <= 10 && fraction.length === decimals;
 }
 
 function blockText(req: FillRequest, c: Common, derived: readonly PlannedColumn[], firstRow: number | undefined, letters: Partial<Record<FillField, string>>, documents?: string, sheetNote = ''): BlockText {
@@ -725,7 +749,7 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
       if (p.matched && (f === 'analyte' || f === 'specimen')) continue;
       const content = inputContent(f, row, rowTier);
       const existing = index.get(p.at, col.col);
-      if (content && target(p.at, col.col, content, f === 'tier' ? 'row-tier' : 'input')) {
+      if (content && target(p.at, col.col, content, f === 'tier' ? 'row-tier' : 'input', writtenFormat(req, key, f, content, true))) {
         eff[f] = content.kind === 'number' ? content.value : content.kind === 'text' ? content.text : 'unknown';
         continue;
       }

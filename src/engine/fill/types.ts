@@ -192,8 +192,9 @@ export interface FillRequest {
   readonly tableSha256?: string;
   /**
    * Decimals each input number was written with in the table file, by rowKey(analyte, specimen)
-   * (the importer's ImportResult.decimals): input cells of a new sheet show them ("14.0" stays
-   * 14.0). Absent: input numbers keep the cell's own format.
+   * (the importer's ImportResult.decimals): input cells show them ("14.0" stays 14.0). On a
+   * template only where the cell's own format is General and General would show fewer decimals
+   * (see writtenFormat in plan.ts). Absent: input numbers keep the cell's own format.
    */
   readonly writtenDecimals?: Readonly<Record<string, WrittenDecimals>>;
 }

@@ -9,6 +9,7 @@
 import { planFill, findHeaderRow, formatTemplateReport, PROVENANCE_SHEET, CAUTION, NO_FINGERPRINT } from '../../../src/engine/fill';
 import type { FillPlan, FillRequest, SheetCell, SheetSnapshot, TemplateTarget } from '../../../src/engine/fill';
 import type { VariationRow, VariationTable } from '../../../src/engine/table';
+import { rowKey } from '../../../src/engine/table/parse';
 import { evaluate } from '../../../src/registry';
 import { mulberry32 } from '../../support/prng';
 
@@ -328,6 +329,19 @@ describe('the provenance and the written decimals, as on a new sheet', () => {
     // Appended rows count as filled.
     const appended = plan(rows, { sheet: small(), append: true });
     expect(appended.provenance.rowsFilled).toBe(2);
+  });
+
+  test('an input number written with trailing zeros gets a format only where General would drop them (14.0, 0.70), not where it shows them already (0.5)', () => {
+    const p = plan([row('Sodium', 'Serum', 14, 0.7), row('Chloride', 'Serum', 0.5, 1.3)], { sheet: sheet({ A1: 'Analyte', B1: 'Specimen', C1: 'CVI %', D1: 'CVG %', A2: 'Sodium', B2: 'Serum', A3: 'Chloride', B3: 'Serum' }) }, {
+      writtenDecimals: { [rowKey('Sodium', 'Serum')]: { cvi: 1, cvg: 2 }, [rowKey('Chloride', 'Serum')]: { cvi: 1, cvg: 1 } },
+    });
+    expect(cell(p, 'C2')).toMatchObject({ content: { kind: 'number', value: 14 }, format: '0.0' });
+    expect(cell(p, 'D2')).toMatchObject({ content: { kind: 'number', value: 0.7 }, format: '0.00' });
+    expect(cell(p, 'C3')!.format).toBeUndefined();
+    expect(cell(p, 'D3')!.format).toBeUndefined();
+    // Without written decimals (a table from the pane's library) no input cell gets a format.
+    const bare = plan([row('Sodium', 'Serum', 14, 0.7)], { sheet: small() });
+    expect(cell(bare, 'C2')!.format).toBeUndefined();
   });
 });
 
