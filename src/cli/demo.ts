@@ -1,23 +1,28 @@
 /**
- * `leeway demo [--out FILE] [--force] [--live]`: the demo workbook (invented data). The
+ * `leeway demo [--out FILE] [--force] [--live] [--paper A4|Letter]`: the demo workbook (invented data). The
  * invented table's specifications at the desirable tier (the fill planner, as `leeway fill`
  * writes them), the invented raw replication, EQA and method-comparison data, observed
  * performance computed from them with the DATA functions, sigma and the QC plan (the engine's
  * assessment chain), measurement uncertainty, and a summary. Every sheet says "DEMO — invented
- * data, not for clinical use" and carries the caution.
+ * data, not for clinical use" and carries the caution; each is a printable document (the
+ * document-sheet layer: page set-up, header and footer, sign-off).
  */
 import type ExcelJS from 'exceljs';
 import { UsageError } from './call';
 import type { Io } from './main';
 import { one, readOptions } from './options';
 import { writeWorkbookAtomically, today, newWorkbook } from './files';
-import { headerHeight, printSetup, writePlan } from './xlsx';
+import { writePlan } from './xlsx';
+import { DocumentSheet, planDocument } from './document';
+import type { DocValue, Paper } from './document';
+import { readPaper } from './fill';
 import { evaluate } from '../registry';
 import type { Arg } from '../registry';
 import type { OutCell } from '../registry/types';
 import { demoData, demoTable, DEMO_ANALYSERS, DEMO_LAB, DEMO_MARKER, reportedDecimals } from '../engine/demo';
 import type { DemoAnalyteData } from '../engine/demo';
-import { planFill, CAUTION, wrapText } from '../engine/fill';
+import { planFill, decimalsFormat } from '../engine/fill';
+import { rowKey } from '../engine/table';
 import type { FillMode } from '../engine/fill';
 import { VERSION } from '../engine/version';
 import { assess } from '../engine/assess';
@@ -25,7 +30,7 @@ import type { Fig } from '../engine/assess';
 import type { QcPlan } from '../engine/qc/plan';
 import { QC_PLAN } from '../registry/catalogue/qc';
 
-export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live]
+export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live] [--date YYYY-MM-DD] [--paper A4|Letter]
                                    build the demo workbook (invented data) in FILE (default leeway-demo.xlsx)`;
 
 export const DEFAULT_DEMO_FILE = 'leeway-demo.xlsx';
@@ -33,10 +38,8 @@ export const DEFAULT_DEMO_FILE = 'leeway-demo.xlsx';
 /** Standard uncertainty of the EQA assigned values, %: invented for the demo. */
 const DEMO_U_REF = 0.6;
 
-type Value = number | string | boolean | null | { error: string };
-
 /** A figure from the registry: a number, text, or an error shown as its code. */
-function show(v: OutCell | undefined): Value {
+function show(v: OutCell | undefined): DocValue {
   if (v === undefined) return null;
   if (typeof v === 'object') return { error: v.error };
   if (typeof v === 'boolean') return v ? 'yes' : 'no';
@@ -69,60 +72,6 @@ const num = (v: OutCell | undefined): number | undefined => (typeof v === 'numbe
 
 const col = (xs: readonly number[]): number[][] => xs.map((x) => [x]);
 const colText = (xs: readonly string[]): string[][] => xs.map((x) => [x]);
-
-/** Writes rows onto a sheet with a cursor; the first rows of every sheet are the demo banner. */
-class SheetBuilder {
-  row = 1;
-  readonly headers: Array<[number, string[]]> = [];
-  constructor(readonly ws: ExcelJS.Worksheet) {}
-
-  banner(title: string): void {
-    const t = this.ws.getCell(this.row++, 1);
-    t.value = `${title} — DEMO`;
-    t.font = { bold: true, size: 14 };
-    const d = this.ws.getCell(this.row++, 1);
-    d.value = DEMO_MARKER;
-    d.font = { bold: true, color: { argb: 'FFC00000' } };
-    this.ws.getCell(this.row++, 1).value = `${DEMO_LAB}: bringing ${DEMO_ANALYSERS.candidate} into service beside ${DEMO_ANALYSERS.current}. Leeway ${VERSION}.`;
-    for (const line of wrapText(CAUTION, 90)) {
-      const c = this.ws.getCell(this.row++, 1);
-      c.value = line;
-      c.font = { italic: true };
-    }
-    this.row++;
-  }
-
-  line(values: readonly Value[], opts: { bold?: boolean; formats?: readonly (string | undefined)[]; header?: boolean } = {}): number {
-    const r = this.row++;
-    if (opts.header) this.headers.push([r, values.map((v) => (typeof v === 'string' ? v : ''))]);
-    values.forEach((v, i) => {
-      if (v === null) return;
-      const cell = this.ws.getCell(r, i + 1);
-      cell.value = v as ExcelJS.CellValue;
-      if (typeof v === 'string' && v.startsWith('=')) cell.alignment = { horizontal: 'left', indent: 1 };
-      const f = opts.formats?.[i];
-      if (f && typeof v === 'number') cell.numFmt = f;
-      if (opts.bold || opts.header) cell.font = { bold: true };
-      if (opts.header) {
-        cell.border = { bottom: { style: 'thin' } };
-        cell.alignment = { wrapText: true, vertical: 'bottom' };
-      }
-    });
-    return r;
-  }
-
-  note(text: string): void {
-    const c = this.ws.getCell(this.row++, 1);
-    c.value = text;
-    c.font = { italic: true, color: { argb: 'FF595959' } };
-  }
-
-  /** Sets column widths, then the header rows' heights to fit their wrapped texts. */
-  widths(ws: readonly number[]): void {
-    ws.forEach((w, i) => (this.ws.getColumn(i + 1).width = w));
-    for (const [r, texts] of this.headers) this.ws.getRow(r).height = headerHeight(texts.map((t, i) => [t, ws[i] ?? 10] as const));
-  }
-}
 
 interface Observed {
   readonly data: DemoAnalyteData;
@@ -217,172 +166,194 @@ export function demoFigures(): Observed[] {
 const P2 = '0.00';
 const P3 = '0.000';
 
-/** Builds the demo workbook (in memory). */
-export function buildDemoWorkbook(options: { mode?: FillMode; date?: string } = {}): ExcelJS.Workbook {
-  const wb = newWorkbook();
-  wb.creator = `Leeway ${VERSION}`;
-  wb.title = `Leeway demo workbook — ${DEMO_MARKER}`;
-  const figures = demoFigures();
-  const table = demoTable();
+/** The number format of results reported at a level (about three significant digits). */
+function levelFormat(level: number): string {
+  return decimalsFormat(reportedDecimals(level));
+}
 
-  // Summary first: what a reviewer reads.
-  const sum = new SheetBuilder(wb.addWorksheet('Summary'));
-  sum.banner('Leeway demo: verification summary');
-  sum.line(['Analyte', 'Specimen', 'Allowable total error % (desirable)', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met', 'QC rule', 'Controls per run', 'Runs', 'Detection', 'Target met', 'Expanded uncertainty % (k = 2)'], { header: true });
-  for (const f of figures) {
-    sum.line(
+interface DemoContext {
+  readonly wb: ExcelJS.Workbook;
+  readonly figures: readonly Observed[];
+  readonly mode: FillMode;
+  readonly date: string;
+  readonly paper: Paper;
+}
+
+/** A new sheet of the demo as a document, with its banner: title, demo marker, the scenario, the caution. */
+function demoSheet(ctx: DemoContext, name: string, title: string): DocumentSheet {
+  const doc = new DocumentSheet(ctx.wb.addWorksheet(name), { title: `${title} — DEMO`, pageTitle: `Leeway demo — ${name}`, demo: true, date: ctx.date, paper: ctx.paper });
+  doc.title(`${title} — DEMO`);
+  doc.demoMarker();
+  doc.text(`${DEMO_LAB}: bringing ${DEMO_ANALYSERS.candidate} into service beside ${DEMO_ANALYSERS.current}. Leeway ${VERSION}.`);
+  doc.caution();
+  doc.skip();
+  return doc;
+}
+
+/** Summary first: what a reviewer reads. */
+function summarySheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'Summary', 'Leeway demo: verification summary');
+  doc.header(['Analyte', 'Specimen', 'Allowable total error % (desirable)', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met', 'QC rule', 'Controls per run', 'Runs', 'Detection', 'Target met', 'Expanded uncertainty % (k = 2)']);
+  for (const f of ctx.figures) {
+    doc.line(
       [f.data.analyte, f.data.specimen, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet), show(pick(f.qc, 'Rule')), show(pick(f.qc, 'Controls per run')), show(pick(f.qc, 'Runs')), show(pick(f.qc, 'Detection')), show(pick(f.qc, 'Target met')), show(f.expanded)],
       { formats: [undefined, undefined, P2, P2, P2, P2, P2, '0.0', undefined, undefined, '0', '0', P3, undefined, P2] },
     );
   }
-  sum.row++;
-  sum.note('Observed total error = |bias| + 1.65·CV (LEEWAY.PERF.TOTAL); sigma = (allowable − |bias|)/CV (LEEWAY.PERF.SIGMA); tier met by total error (LEEWAY.PERF.TIER);');
-  sum.note('QC rule: the simplest candidate reaching 90 % detection of the critical shift with ≤ 5 % false rejection (LEEWAY.QC.PLAN). Details on the other sheets.');
-  sum.widths([14, 10, 14, 10, 10, 12, 11, 8, 11, 24, 9, 6, 10, 8, 13]);
+  doc.skip();
+  doc.note('Observed total error = |bias| + 1.65·CV (LEEWAY.PERF.TOTAL); sigma = (allowable − |bias|)/CV (LEEWAY.PERF.SIGMA); tier met by total error (LEEWAY.PERF.TIER);');
+  doc.note('QC rule: the simplest candidate reaching 90 % detection of the critical shift with ≤ 5 % false rejection (LEEWAY.QC.PLAN). Details on the other sheets.');
+  doc.finish();
+}
 
-  // Specifications: the fill planner, exactly as leeway fill writes a new sheet.
-  const specWs = wb.addWorksheet('Specifications');
-  const planned = planFill({ table, tier: 'desirable', z: 1.65, mode: options.mode ?? 'values', target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: options.date ?? today() });
+/** Specifications: the fill planner, exactly as leeway fill writes a new sheet. */
+function specificationsSheet(ctx: DemoContext): void {
+  const ws = ctx.wb.addWorksheet('Specifications');
+  const table = demoTable();
+  // The invented table's CVs are written with one decimal (24.0, not 24).
+  const writtenDecimals = Object.fromEntries(table.rows.map((r) => [rowKey(r.analyte, r.specimen), { cvi: 1, cvg: 1 }]));
+  const planned = planFill({ table, tier: 'desirable', z: 1.65, mode: ctx.mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: ctx.date, writtenDecimals });
   if (!planned.ok) throw new Error(planned.problems.map((p) => p.message).join('; '));
-  writePlan(specWs, planned.plan);
+  writePlan(ws, planned.plan);
+  planDocument(ws, planned.plan, { paper: ctx.paper, pageTitle: 'Leeway demo — Specifications' }).finish();
+}
 
-  // Replication: raw data and the one-way ANOVA per analyte.
-  const rep = new SheetBuilder(wb.addWorksheet('Replication'));
-  rep.banner(`Leeway demo: precision, 5 days × 5 replicates on ${DEMO_ANALYSERS.candidate}`);
-  const precLabels = ['Mean', 'Repeatability SD', 'Between-group SD', 'Within-lab SD', 'Repeatability CV %', 'Within-lab CV %', 'Groups', 'Results'];
-  rep.line(['Analyte', 'Unit', ...precLabels, 'Formula'], { header: true });
-  const resultsHeaderRow = rep.row - 1;
-  const resultRows = figures.length;
-  rep.row += resultRows + 1;
-  rep.line(['Raw data (invented)'], { bold: true });
-  rep.line(['Analyte', 'Day', 'Result'], { header: true });
-  const rawStart: number[] = [];
-  for (const f of figures) {
-    rawStart.push(rep.row);
-    const fmt = reportedDecimals(f.data.level) === 0 ? '0' : `0.${'0'.repeat(reportedDecimals(f.data.level))}`;
-    for (const x of f.data.replication) rep.line([f.data.analyte, x.day, x.result], { formats: [undefined, undefined, fmt] });
-  }
-  figures.forEach((f, i) => {
-    const first = rawStart[i];
-    const last = first + f.data.replication.length - 1;
-    const r = resultsHeaderRow + 1 + i;
-    const vals = precLabels.map((l) => show(pick(f.precision, l)));
-    const formats = [undefined, undefined, P3, P3, P3, P3, P2, P2, '0', '0'];
-    [f.data.analyte, f.data.unit, ...vals, `=LEEWAY.DATA.PRECISION(C${first}:C${last},B${first}:B${last})`].forEach((v, j) => {
-      if (v === null) return;
-      const c = rep.ws.getCell(r, j + 1);
-      c.value = v as ExcelJS.CellValue;
-      if (formats[j] && typeof v === 'number') c.numFmt = formats[j]!;
-      if (typeof v === 'string' && v.startsWith('=')) c.alignment = { horizontal: 'left', indent: 1 };
-    });
+interface RowOut {
+  readonly values: readonly DocValue[];
+  readonly formats?: readonly (string | undefined)[];
+}
+
+/** A sheet of results per analyte (a table at the top) computed from the invented raw data listed below it. */
+interface ResultsAndRaw {
+  readonly resultsHeader: readonly string[];
+  readonly rawHeader: readonly string[];
+  readonly raw: (f: Observed) => RowOut[];
+  /** The analyte's results row, given the sheet rows of its raw data. */
+  readonly results: (f: Observed, first: number, last: number, row: number) => RowOut;
+}
+
+function writeResultsAndRaw(doc: DocumentSheet, figures: readonly Observed[], s: ResultsAndRaw): void {
+  doc.header(s.resultsHeader);
+  const top = doc.row;
+  doc.skip(figures.length + 1);
+  doc.text('Raw data (invented)', { bold: true });
+  doc.printTitle(doc.header(s.rawHeader));
+  const spans = figures.map((f) => {
+    const first = doc.row;
+    for (const r of s.raw(f)) doc.line(r.values, { formats: r.formats });
+    return [first, doc.row - 1] as const;
   });
-  rep.widths([14, 9, 10, 12, 12, 11, 12, 10, 8, 8, 44]);
-
-  // EQA: raw data, mean and RMS bias, and the bias uncertainty.
-  const eqa = new SheetBuilder(wb.addWorksheet('EQA'));
-  eqa.banner(`Leeway demo: external quality assessment, ${DEMO_ANALYSERS.candidate}`);
-  eqa.line(['Analyte', 'Mean bias %', 'RMS bias %', `u(bias) % (u_ref ${DEMO_U_REF} %, invented)`, 'Formula'], { header: true });
-  const eqaHeader = eqa.row - 1;
-  eqa.row += figures.length + 1;
-  eqa.line(['Raw data (invented)'], { bold: true });
-  eqa.line(['Analyte', 'Sample', 'Assigned value', 'Result', 'Bias %'], { header: true });
-  const eqaStart: number[] = [];
-  for (const f of figures) {
-    eqaStart.push(eqa.row);
-    const d = reportedDecimals(f.data.level);
-    const fmt = d === 0 ? '0' : `0.${'0'.repeat(d)}`;
-    for (const x of f.data.eqa) eqa.line([f.data.analyte, x.sample, x.target, x.result, (100 * (x.result - x.target)) / x.target], { formats: [undefined, undefined, fmt, fmt, P2] });
-  }
   figures.forEach((f, i) => {
-    const first = eqaStart[i];
-    const last = first + f.data.eqa.length - 1;
-    const r = eqaHeader + 1 + i;
-    [f.data.analyte, show(f.bias), show(f.rmsBias), show(f.uBias), `=LEEWAY.DATA.BIAS(D${first}:D${last},C${first}:C${last})`].forEach((v, j) => {
-      if (v === null) return;
-      const c = eqa.ws.getCell(r, j + 1);
-      c.value = v as ExcelJS.CellValue;
-      if (j >= 1 && j <= 3 && typeof v === 'number') c.numFmt = P2;
-      if (typeof v === 'string' && v.startsWith('=')) c.alignment = { horizontal: 'left', indent: 1 };
-    });
+    const r = s.results(f, spans[i][0], spans[i][1], top + i);
+    r.values.forEach((v, j) => doc.put(top + i, j + 1, v, { format: r.formats?.[j] }));
   });
-  eqa.widths([14, 12, 12, 14, 44]);
+}
 
-  // Method comparison: Passing–Bablok at the medical decision level.
-  const cmp = new SheetBuilder(wb.addWorksheet('Comparison'));
-  cmp.banner(`Leeway demo: method comparison, x = ${DEMO_ANALYSERS.current}, y = ${DEMO_ANALYSERS.candidate}`);
-  const cmpLabels = ['Slope', 'Slope low 95%', 'Slope high 95%', 'Intercept', 'Intercept low 95%', 'Intercept high 95%', 'Bias at level', 'Bias at level %'];
-  cmp.line(['Analyte', 'Level', ...cmpLabels, 'Formula'], { header: true });
-  const cmpHeader = cmp.row - 1;
-  cmp.row += figures.length + 1;
-  cmp.line(['Raw data (invented)'], { bold: true });
-  cmp.line(['Analyte', 'Sample', 'x: analyser A', 'y: analyser B'], { header: true });
-  const cmpStart: number[] = [];
-  for (const f of figures) {
-    cmpStart.push(cmp.row);
-    const d = reportedDecimals(f.data.level);
-    const fmt = d === 0 ? '0' : `0.${'0'.repeat(d)}`;
-    for (const x of f.data.comparison) cmp.line([f.data.analyte, x.sample, x.x, x.y], { formats: [undefined, undefined, fmt, fmt] });
-  }
-  figures.forEach((f, i) => {
-    const first = cmpStart[i];
-    const last = first + f.data.comparison.length - 1;
-    const r = cmpHeader + 1 + i;
-    [f.data.analyte, f.data.level, ...cmpLabels.map((l) => show(pick(f.compare, l))), `=LEEWAY.DATA.COMPARE(C${first}:C${last},D${first}:D${last},"passing-bablok",B${r})`].forEach((v, j) => {
-      if (v === null) return;
-      const c = cmp.ws.getCell(r, j + 1);
-      c.value = v as ExcelJS.CellValue;
-      if (j >= 2 && j <= 9 && typeof v === 'number') c.numFmt = P3;
-      if (typeof v === 'string' && v.startsWith('=')) c.alignment = { horizontal: 'left', indent: 1 };
-    });
+/** Replication: raw data and the one-way ANOVA per analyte. */
+function replicationSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'Replication', `Leeway demo: precision, 5 days × 5 replicates on ${DEMO_ANALYSERS.candidate}`);
+  const labels = ['Mean', 'Repeatability SD', 'Between-group SD', 'Within-lab SD', 'Repeatability CV %', 'Within-lab CV %', 'Groups', 'Results'];
+  writeResultsAndRaw(doc, ctx.figures, {
+    resultsHeader: ['Analyte', 'Unit', ...labels, 'Formula'],
+    rawHeader: ['Analyte', 'Day', 'Result'],
+    raw: (f) => f.data.replication.map((x) => ({ values: [f.data.analyte, x.day, x.result], formats: [undefined, undefined, levelFormat(f.data.level)] })),
+    results: (f, first, last) => ({
+      values: [f.data.analyte, f.data.unit, ...labels.map((l) => show(pick(f.precision, l))), `=LEEWAY.DATA.PRECISION(C${first}:C${last},B${first}:B${last})`],
+      formats: [undefined, undefined, P3, P3, P3, P3, P2, P2, '0', '0'],
+    }),
   });
-  cmp.widths([14, 8, 11, 11, 9, 10, 10, 10, 10, 10, 60]);
+  doc.finish();
+}
 
-  // Performance against the desirable specification.
-  const perf = new SheetBuilder(wb.addWorksheet('Performance'));
-  perf.banner('Leeway demo: observed performance against the desirable specification');
-  perf.line(['Analyte', 'CVI %', 'CVG %', 'Allowable total error %', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met'], { header: true });
-  for (const f of figures) perf.line([f.data.analyte, f.cvi, f.cvg, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet)], { formats: [undefined, undefined, undefined, P2, P2, P2, P2, P2, '0.0'] });
-  perf.row++;
-  perf.note('=LEEWAY.SPEC.TOTAL(cvi, cvg, "desirable", 1.65); =LEEWAY.PERF.TOTAL(bias, cv); =LEEWAY.PERF.SHARE(observed, allowable); =LEEWAY.PERF.SIGMA(allowable, bias, cv); =LEEWAY.PERF.TIER(cvi, cvg, bias, cv)');
-  perf.widths([14, 8, 8, 14, 11, 11, 13, 11, 8, 11]);
+/** EQA: raw data, mean and RMS bias, and the bias uncertainty. */
+function eqaSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'EQA', `Leeway demo: external quality assessment, ${DEMO_ANALYSERS.candidate}`);
+  writeResultsAndRaw(doc, ctx.figures, {
+    resultsHeader: ['Analyte', 'Mean bias %', 'RMS bias %', `u(bias) % (u_ref ${DEMO_U_REF} %, invented)`, 'Formula'],
+    rawHeader: ['Analyte', 'Sample', 'Assigned value', 'Result', 'Bias %'],
+    raw: (f) => {
+      const fmt = levelFormat(f.data.level);
+      return f.data.eqa.map((x) => ({ values: [f.data.analyte, x.sample, x.target, x.result, (100 * (x.result - x.target)) / x.target], formats: [undefined, undefined, fmt, fmt, P2] }));
+    },
+    results: (f, first, last) => ({
+      values: [f.data.analyte, show(f.bias), show(f.rmsBias), show(f.uBias), `=LEEWAY.DATA.BIAS(D${first}:D${last},C${first}:C${last})`],
+      formats: [undefined, P2, P2, P2],
+    }),
+  });
+  doc.finish();
+}
 
-  // QC plan.
-  const qc = new SheetBuilder(wb.addWorksheet('QC plan'));
-  qc.banner('Leeway demo: internal QC design');
-  const qcLabels = ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met'];
-  qc.line(['Analyte', 'Allowable total error %', 'Bias %', 'CV %', 'Sigma', 'Critical shift (SD)', ...qcLabels], { header: true });
-  for (const f of figures) qc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...qcLabels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3] });
-  qc.row++;
-  qc.note('=LEEWAY.QC.SHIFT(allowable, bias, cv); =LEEWAY.QC.PLAN(allowable, bias, cv): target detection 0.90 at the critical shift, false rejection per run ≤ 0.05.');
-  qc.widths([14, 13, 9, 9, 8, 11, 24, 10, 7, 10, 12, 9]);
+/** Method comparison: Passing–Bablok at the medical decision level. */
+function comparisonSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'Comparison', `Leeway demo: method comparison, x = ${DEMO_ANALYSERS.current}, y = ${DEMO_ANALYSERS.candidate}`);
+  const labels = ['Slope', 'Slope low 95%', 'Slope high 95%', 'Intercept', 'Intercept low 95%', 'Intercept high 95%', 'Bias at level', 'Bias at level %'];
+  writeResultsAndRaw(doc, ctx.figures, {
+    resultsHeader: ['Analyte', 'Level', ...labels, 'Formula'],
+    rawHeader: ['Analyte', 'Sample', 'x: analyser A', 'y: analyser B'],
+    raw: (f) => {
+      const fmt = levelFormat(f.data.level);
+      return f.data.comparison.map((x) => ({ values: [f.data.analyte, x.sample, x.x, x.y], formats: [undefined, undefined, fmt, fmt] }));
+    },
+    results: (f, first, last, row) => ({
+      values: [f.data.analyte, f.data.level, ...labels.map((l) => show(pick(f.compare, l))), `=LEEWAY.DATA.COMPARE(C${first}:C${last},D${first}:D${last},"passing-bablok",B${row})`],
+      formats: [undefined, undefined, ...labels.map(() => P3)],
+    }),
+  });
+  doc.finish();
+}
 
-  // Measurement uncertainty.
-  const mu = new SheetBuilder(wb.addWorksheet('Uncertainty'));
-  mu.banner('Leeway demo: measurement uncertainty (within-lab CV and EQA bias)');
-  mu.line(['Analyte', 'u(Rw) % = within-lab CV', 'u(bias) %', 'Expanded U % (k = 2)', 'Maximum allowable U % (desirable, k = 2)', 'Within the allowance'], { header: true });
-  for (const f of figures) {
+/** Performance against the desirable specification. */
+function performanceSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'Performance', 'Leeway demo: observed performance against the desirable specification');
+  doc.header(['Analyte', 'CVI %', 'CVG %', 'Allowable total error %', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met']);
+  for (const f of ctx.figures) doc.line([f.data.analyte, f.cvi, f.cvg, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet)], { formats: [undefined, undefined, undefined, P2, P2, P2, P2, P2, '0.0'] });
+  doc.skip();
+  doc.note('=LEEWAY.SPEC.TOTAL(cvi, cvg, "desirable", 1.65); =LEEWAY.PERF.TOTAL(bias, cv); =LEEWAY.PERF.SHARE(observed, allowable); =LEEWAY.PERF.SIGMA(allowable, bias, cv); =LEEWAY.PERF.TIER(cvi, cvg, bias, cv)');
+  doc.finish();
+}
+
+/** QC plan. */
+function qcSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'QC plan', 'Leeway demo: internal QC design');
+  const labels = ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met'];
+  doc.header(['Analyte', 'Allowable total error %', 'Bias %', 'CV %', 'Sigma', 'Critical shift (SD)', ...labels]);
+  for (const f of ctx.figures) doc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...labels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3] });
+  doc.skip();
+  doc.note('=LEEWAY.QC.SHIFT(allowable, bias, cv); =LEEWAY.QC.PLAN(allowable, bias, cv): target detection 0.90 at the critical shift, false rejection per run ≤ 0.05.');
+  doc.finish();
+}
+
+/** Measurement uncertainty. */
+function uncertaintySheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'Uncertainty', 'Leeway demo: measurement uncertainty (within-lab CV and EQA bias)');
+  doc.header(['Analyte', 'u(Rw) % = within-lab CV', 'u(bias) %', 'Expanded U % (k = 2)', 'Maximum allowable U % (desirable, k = 2)', 'Within the allowance']);
+  for (const f of ctx.figures) {
     const within = num(f.expanded) !== undefined && num(f.muLimit) !== undefined ? (num(f.expanded)! <= num(f.muLimit)! ? 'yes' : 'no') : null;
-    mu.line([f.data.analyte, show(f.cv), show(f.uBias), show(f.expanded), show(f.muLimit), within], { formats: [undefined, P2, P2, P2, P2] });
+    doc.line([f.data.analyte, show(f.cv), show(f.uBias), show(f.expanded), show(f.muLimit), within], { formats: [undefined, P2, P2, P2, P2] });
   }
-  mu.row++;
-  mu.note(`=LEEWAY.MU.BIAS(bias_values, ${DEMO_U_REF}); =LEEWAY.MU.COMBINE(u_rw, u_bias, 2); =LEEWAY.SPEC.MU(cvi, "desirable", 2)`);
-  mu.widths([14, 14, 11, 13, 18, 12]);
+  doc.skip();
+  doc.note(`=LEEWAY.MU.BIAS(bias_values, ${DEMO_U_REF}); =LEEWAY.MU.COMBINE(u_rw, u_bias, 2); =LEEWAY.SPEC.MU(cvi, "desirable", 2)`);
+  doc.finish();
+}
 
-  for (const ws of wb.worksheets) {
-    printSetup(ws);
-    ws.headerFooter = { oddHeader: `&L${DEMO_MARKER}&R&A`, oddFooter: `&LLeeway ${VERSION} demo workbook&RPage &P of &N` };
-    ws.views = [{ state: 'normal', zoomScale: 100 }];
-  }
+/** Builds the demo workbook (in memory): eight sheets, each a printable document. */
+export function buildDemoWorkbook(options: { mode?: FillMode; date?: string; paper?: Paper } = {}): ExcelJS.Workbook {
+  const wb = newWorkbook();
+  wb.creator = `Leeway ${VERSION}`;
+  wb.title = `Leeway demo workbook — ${DEMO_MARKER}`;
+  const ctx: DemoContext = { wb, figures: demoFigures(), mode: options.mode ?? 'values', date: options.date ?? today(), paper: options.paper ?? 'A4' };
+  for (const sheet of [summarySheet, specificationsSheet, replicationSheet, eqaSheet, comparisonSheet, performanceSheet, qcSheet, uncertaintySheet]) sheet(ctx);
+  for (const ws of wb.worksheets) ws.views = [{ state: 'normal', zoomScale: 100 }];
   return wb;
 }
 
 export async function demoCommand(args: string[], io: Io): Promise<number> {
-  const o = readOptions('demo', args, { values: ['out', 'date'], flags: ['force', 'live'] });
+  const o = readOptions('demo', args, { values: ['out', 'date', 'paper'], flags: ['force', 'live'] });
   if (o.positional.length) throw new UsageError(`demo: unexpected argument ${o.positional[0]} (use --out FILE)`);
   const out = one(o, 'out') ?? DEFAULT_DEMO_FILE;
   const date = one(o, 'date');
   if (date !== undefined && !/^\d{4}-\d{2}-\d{2}$/.test(date)) throw new UsageError(`demo: --date must be YYYY-MM-DD (got ${date})`);
-  const wb = buildDemoWorkbook({ mode: o.flags.has('live') ? 'live' : 'values', date });
+  const wb = buildDemoWorkbook({ mode: o.flags.has('live') ? 'live' : 'values', date, paper: readPaper(one(o, 'paper'), 'demo') });
   await writeWorkbookAtomically(wb, out, o.flags.has('force'));
   io.out(`wrote ${out}: the demo workbook (${wb.worksheets.map((w) => w.name).join(', ')}) — ${DEMO_MARKER}`);
   return 0;

@@ -1,8 +1,9 @@
 /**
  * `leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B]
- *   [--template X.xlsx [--sheet S] [--at A1] [--append]] [--overwrite] [--force] [--live]`
+ *   [--template X.xlsx [--sheet S] [--at A1] [--append]] [--overwrite] [--force] [--live]
+ *   [--paper A4|Letter]`
  * fills an .xlsx headless with the planner the task pane uses. A new workbook is written with
- * exceljs. A template is filled by editing its package directly (src/cli/workbook): only the
+ * exceljs and laid out for printing by the document-sheet layer (src/cli/document). A template is filled by editing its package directly (src/cli/workbook): only the
  * cells the fill writes change, and every other part of the file keeps its bytes. By default
  * derived columns are values (full precision; rounding only in the number format); --live writes
  * LEEWAY formulas (stored as Excel stores add-in calls, see xlsx.ts) with their results cached.
@@ -14,7 +15,9 @@ import type { Io } from './main';
 import { one, readOptions } from './options';
 import { readBytes, checkOutput, writeWorkbookAtomically, writeBytesAtomically, today, newWorkbook } from './files';
 import { progressBar } from './progress';
-import { printSetup, writePlan } from './xlsx';
+import { writePlan } from './xlsx';
+import { planDocument, PAPERS } from './document';
+import type { Paper } from './document';
 import { TemplateWorkbook } from './workbook/template';
 import { WorkbookError } from './workbook/package';
 import { parseTableBytes, acceptImport, formatProblem, formatReport } from '../engine/table';
@@ -29,6 +32,7 @@ import { Z_TOTAL_ERROR } from '../engine/coverage';
 export const FILL_USAGE = `  leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B]
               [--template X.xlsx [--sheet S] [--at A1] [--append]] [--overwrite] [--force]
               [--live] [--date YYYY-MM-DD] [--decimals N] [--map HEADER=FIELD]
+              [--paper A4|Letter]
                                    fill a workbook from a variation table (values by default;
                                    --live writes LEEWAY formulas for the add-in); a template gets
                                    only its empty target cells written (--overwrite replaces the
@@ -51,9 +55,17 @@ export function readMappings(list: readonly string[] | undefined, command: strin
   return out;
 }
 
+/** --paper A4 (default) or Letter, any case. */
+export function readPaper(text: string | undefined, command: string): Paper {
+  if (text === undefined) return 'A4';
+  const found = PAPERS.find((p) => p.toLowerCase() === text.trim().toLowerCase());
+  if (!found) throw new UsageError(`${command}: --paper must be ${PAPERS.join(' or ')} (got ${text})`);
+  return found;
+}
+
 export async function fillCommand(args: string[], io: Io): Promise<number> {
   const o = readOptions('fill', args, {
-    values: ['table', 'out', 'tier', 'z', 'analytes', 'template', 'sheet', 'at', 'date', 'decimals', 'map'],
+    values: ['table', 'out', 'tier', 'z', 'analytes', 'template', 'sheet', 'at', 'date', 'decimals', 'map', 'paper'],
     flags: ['overwrite', 'force', 'live', 'append'],
     repeatable: ['map', 'analytes'],
   });
@@ -79,11 +91,13 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   if (!(Number.isInteger(decimals) && decimals >= 0 && decimals <= 15)) throw new UsageError(`fill: --decimals must be a whole number from 0 to 15 (got ${decText})`);
   const date = one(o, 'date') ?? today();
   if (!/^\d{4}-\d{2}-\d{2}$/.test(date)) throw new UsageError(`fill: --date must be YYYY-MM-DD (got ${date})`);
+  const paper = readPaper(one(o, 'paper'), 'fill');
   const template = one(o, 'template');
   const sheetName = one(o, 'sheet');
   const atText = one(o, 'at');
   if (atText !== undefined && !template) throw new UsageError('fill: --at needs --template (a new workbook is always filled from A1)');
   if (o.flags.has('append') && !template) throw new UsageError('fill: --append needs --template (a new workbook gets every analyte)');
+  if (one(o, 'paper') !== undefined && template) throw new UsageError("fill: --paper is for a new workbook: a template keeps the lab's own page set-up");
   const at = atText === undefined ? undefined : parseA1(atText);
   if (atText !== undefined && !at) throw new UsageError(`fill: --at ${atText} is not a cell inside a sheet (A1 to XFD${MAX_ROWS}, at most ${MAX_COLUMNS} columns)`);
   const mode: FillMode = o.flags.has('live') ? 'live' : 'values';
@@ -108,7 +122,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   if (selection.unknown.length) {
     throw new Error(`the table has no analyte ${selection.unknown.map((n) => `"${n}"`).join(', ')}: nothing was written (it lists ${table.rows.slice(0, 8).map((r) => r.analyte).join(', ')}${table.rows.length > 8 ? ', …' : ''})`);
   }
-  const base = { table, rows: selection.rows, tier, z, mode, overwrite: o.flags.has('overwrite'), date, decimals, tableSha256 };
+  const base = { table, rows: selection.rows, tier, z, mode, overwrite: o.flags.has('overwrite'), date, decimals, tableSha256, writtenDecimals: imported.decimals };
 
   if (!template) {
     const wb = newWorkbook();
@@ -117,7 +131,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
     if (!planned.ok) return refuse(planned.problems, io);
     const bar = progressBar('filling');
     writePlan(ws, planned.plan, (d, t) => bar.update(d, t));
-    printSetup(ws);
+    planDocument(ws, planned.plan, { paper }).finish();
     bar.done();
     await writeWorkbookAtomically(wb, out, force);
     io.out(summary(out, planned.plan));

@@ -124,8 +124,3 @@ export function headerHeight(cells: ReadonlyArray<readonly [string, number]>): n
   }
   return 15 * Math.min(lines, 4);
 }
-
-/** Page setup for readable printing: landscape, one page wide. */
-export function printSetup(ws: ExcelJS.Worksheet): void {
-  ws.pageSetup = { ...ws.pageSetup, orientation: 'landscape', fitToPage: true, fitToWidth: 1, fitToHeight: 0, paperSize: 9 };
-}

@@ -82,6 +82,10 @@ describeInBrowser('task pane: choosing and filling', () => {
     const texts = plan.cells.map((c) => (c.content.kind === 'text' ? c.content.text : '')).join(' ');
     expect(texts).toContain('DEMO');
     expect(texts).toContain('laboratory director');
+    // The pane has no table file to fingerprint: the same provenance fields, the SHA-256 null and said why.
+    expect(plan.provenance).toMatchObject({ tableSha256: null, tableRows: demo.rows.length, rowsFilled: rows.length });
+    expect(texts).toContain('none: the built-in demo table is not a file');
+    expect(texts).toContain(`${demo.rows.length} in the table; ${rows.length} filled here`);
     expect(errors).toEqual([]);
 
     // A second fill goes to a new sheet with a name not yet taken.
@@ -126,6 +130,7 @@ describeInBrowser('task pane: choosing and filling', () => {
     expect(plan.target).toBe('template');
     expect(plan.overwrite).toBe(true);
     expect(plan.conflicts.map((c) => c.address)).toEqual(['E3']);
+    expect(plan.provenance).toMatchObject({ tableSha256: null, tableRows: demo.rows.length, rowsFilled: 1 });
     expect(plan.cells.find((c) => c.address === 'F3')!.content).toMatchObject({ kind: 'formula', formula: `=LEEWAY.SPEC.CV(C3,${plan.tierCell})` });
     expect(plan.cells.find((c) => c.address === 'E3')!.content).toMatchObject({ kind: 'formula', formula: `=LEEWAY.SPEC.TOTAL(C3,D3,${plan.tierCell},${plan.zCell})` });
     await context.close();

@@ -31,8 +31,9 @@ async function sheetOf(file: string, name?: string): Promise<ExcelJS.Worksheet> 
 const GOOD_SHA256 = createHash('sha256').update(fs.readFileSync(GOOD)).digest('hex');
 
 function expectedPlan(mode: 'live' | 'values'): FillPlan {
-  const table = acceptImport(parseTableText(fs.readFileSync(GOOD, 'utf8'), { name: 'good.csv', origin: path.resolve(GOOD) }));
-  const r = planFill({ table, tier: 'desirable', z: 1.65, mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE, tableSha256: GOOD_SHA256 });
+  const imported = parseTableText(fs.readFileSync(GOOD, 'utf8'), { name: 'good.csv', origin: path.resolve(GOOD) });
+  const table = acceptImport(imported);
+  const r = planFill({ table, tier: 'desirable', z: 1.65, mode, target: { kind: 'new-sheet', sheetName: 'Specifications' }, date: DATE, tableSha256: GOOD_SHA256, writtenDecimals: imported.decimals });
   if (!r.ok) throw new Error('plan failed');
   return r.plan;
 }
@@ -102,7 +103,7 @@ describe('leeway fill: round trip into a new workbook', () => {
     const noteText = typeof note === 'string' ? note : JSON.stringify(note);
     expect(noteText).toContain('=LEEWAY.SPEC.TOTAL(');
     const texts = textOf(ws);
-    expect(texts).toEqual(expect.arrayContaining(['good.csv', path.resolve(GOOD), GOOD_SHA256, '3', DATE, `Leeway ${VERSION}`, 'desirable']));
+    expect(texts).toEqual(expect.arrayContaining(['good.csv', path.resolve(GOOD), GOOD_SHA256, '3 in the table; 3 filled here', DATE, `Leeway ${VERSION}`, 'desirable']));
     expect(texts.filter((t) => CAUTION.includes(t) && t.length > 20).join(' ')).toBe(CAUTION);
     expect(strayFiles(dir, ['specs.xlsx'])).toEqual([]);
   });

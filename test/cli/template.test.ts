@@ -164,7 +164,8 @@ describe.each(['lab.xlsx', 'lab-libreoffice.xlsx'])('a default fill of %s', (fil
     const tierRow = [...p.values].find(([, v]) => v === 'Tier (whole sheet)')![0].slice(1);
     expect(p.values.get(`B${tierRow}`)).toBe('desirable');
     expect(p.values.get(`B${Number(tierRow) + 1}`)).toBe(1.65);
-    expect(p.values.get(`B${[...p.values].find(([, v]) => v === 'Table rows')![0].slice(1)}`)).toBe('4');
+    // The table has 4 rows; the template lists 2 of them (rows 7 and 8), so 2 were filled.
+    expect(p.values.get(`B${[...p.values].find(([, v]) => v === 'Table rows')![0].slice(1)}`)).toBe('4 in the table; 2 filled here');
     expect(flat).toContain(CAUTION);
     // Two columns of 18 and 40 characters: every value line fits its column.
     for (const t of colB) expect(t.length).toBeLessThanOrEqual(38);
@@ -206,6 +207,50 @@ describe('a template made by exceljs (built here): notes, validation, a defined 
     expect(v.getCell('A3').note).toBe('Invented note on the header');
     // The title, wrapped to the four columns' width (4 × 8.43 characters).
     expect(`${v.getCell('A6').value} ${v.getCell('A7').value}`).toBe('Leeway — analytical performance specifications');
+  });
+});
+
+describe('page set-up, and numbers as the table file writes them', () => {
+  test('a General cell shows 14.0 and 6.90 as written; a cell the lab formatted keeps its format; 12.4 needs no format; the block names the file by its SHA-256', async () => {
+    const dir = tempDir('decimals');
+    const csv = path.join(dir, 'written.csv');
+    fs.writeFileSync(csv, 'analyte,specimen,unit,cvi,cvg,source\nArvelin,Serum,mmol/L,14.0,6.90,Invented for tests (2026-01)\nBrontase,Serum,U/L,12.4,18.10,Invented for tests (2026-01)\n');
+    const tpl = path.join(dir, 'template.xlsx');
+    const wb = new ExcelJS.Workbook();
+    const ws = wb.addWorksheet('Verification');
+    ws.getRow(1).values = ['Analyte', 'Specimen', 'CVI %', 'CVG %'];
+    ws.getRow(2).values = ['Arvelin', 'Serum'];
+    ws.getRow(3).values = ['Brontase', 'Serum'];
+    // The lab's own format on one input cell.
+    ws.getCell('D3').numFmt = '0.000';
+    await wb.xlsx.writeFile(tpl);
+    const out = path.join(dir, 'filled.xlsx');
+    const r = await leeway('fill', '--table', csv, '--template', tpl, '--out', out, '--date', DATE);
+    expect(r.err).toEqual([]);
+    expect(r.code).toBe(0);
+    const back = new ExcelJS.Workbook();
+    await back.xlsx.readFile(out);
+    const v = back.getWorksheet('Verification')!;
+    expect([v.getCell('C2').value, v.getCell('C2').numFmt]).toEqual([14, '0.0']);
+    expect([v.getCell('D2').value, v.getCell('D2').numFmt]).toEqual([6.9, '0.00']);
+    // 12.4 in General already shows as written: no format is added.
+    expect(v.getCell('C3').value).toBe(12.4);
+    expect(v.getCell('C3').numFmt ?? 'General').toBe('General');
+    expect([v.getCell('D3').value, v.getCell('D3').numFmt]).toEqual([18.1, '0.000']);
+    const sha = createHash('sha256').update(fs.readFileSync(csv)).digest('hex');
+    const block: string[] = [];
+    v.eachRow((row) => row.eachCell((c) => typeof c.value === 'string' && block.push(c.value)));
+    expect(block.join('')).toContain(sha);
+    expect(block.join(' ')).toContain('Table rows: 2 in the table; 2 filled here');
+  });
+
+  test('--paper is refused with a template: the template keeps its own page set-up', async () => {
+    const dir = tempDir('paper');
+    const out = path.join(dir, 'filled.xlsx');
+    const r = await leeway('fill', '--table', TABLE, '--template', path.join(FIXTURES, 'lab.xlsx'), '--out', out, '--paper', 'Letter');
+    expect(r.code).not.toBe(0);
+    expect(r.err.join('\n')).toMatch(/--paper is for a new workbook/);
+    expect(fs.existsSync(out)).toBe(false);
   });
 });
 
@@ -400,7 +445,7 @@ describe('printed: LibreOffice renders a filled template to PDF', () => {
     expect(page1).toMatch(/Allowable\s+Allowable\s+total error/);
     expect(page1).toMatch(/Arvelin\s+Serum\s+5\.7\s+6\.9\s+2\.85\s+2\.24\s+6\.94/);
     // The block, with whole labels and the caution's last words.
-    for (const t of ['Leeway — analytical performance specifications', 'Tier (whole sheet)', 'z (coverage factor)', 'desirable', 'Table: table.csv', 'Table file SHA-256:', 'Filled on: 2026-02-03', `Program: Leeway ${VERSION}`, 'critically appraised source.']) {
+    for (const t of ['Leeway — analytical performance specifications', 'Tier (whole sheet)', 'z (coverage factor)', 'desirable', 'Table: table.csv', 'Table SHA-256:', 'Filled on: 2026-02-03', `Program: Leeway ${VERSION}`, 'critically appraised source.']) {
       expect(page1).toContain(t);
     }
     const words = page1.replace(/\s+/g, ' ');

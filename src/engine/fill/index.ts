@@ -35,7 +35,7 @@ export type {
   TemplateTarget,
 } from './types';
 export { DERIVED_FIELDS } from './types';
-export { planFill, derivedFormula, derivedValue, shown, TITLE, TIER_CELL_LABEL, Z_CELL_LABEL, PROVENANCE_SHEET } from './plan';
+export { planFill, derivedFormula, derivedValue, decimalsFormat, shown, NO_FINGERPRINT, TITLE, TIER_CELL_LABEL, Z_CELL_LABEL, PROVENANCE_SHEET } from './plan';
 export { findHeaderRow, headerRowAt, HEADER_SCAN_ROWS } from './scan';
 export type { HeaderCell, HeaderColumn, HeaderRow } from './scan';
 export { SheetIndex, DEFAULT_COLUMN_WIDTH, rangeText } from './sheet';

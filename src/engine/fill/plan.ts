@@ -23,7 +23,7 @@ import { readTier, TIERS } from '../tiers';
 import type { Tier } from '../tiers';
 import { VERSION } from '../version';
 import { rowKey } from '../table/parse';
-import type { VariationRow } from '../table/types';
+import type { NumericField, VariationRow } from '../table/types';
 import { a1, columnLetters, MAX_COLUMNS, MAX_ROWS, sheetPrefix } from './a1';
 import { besideBlock, belowBlock, TITLE, TIER_CELL_LABEL, Z_CELL_LABEL } from './block';
 import type { BlockCell, BlockText, PlacedBlock } from './block';
@@ -65,6 +65,19 @@ export const PROVENANCE_SHEET = 'Leeway provenance';
 /** Widths in characters of that sheet's label and value columns. */
 const PROVENANCE_LABEL_WIDTH = 18;
 const PROVENANCE_VALUE_WIDTH = 40;
+
+/** What the block says when the caller has no fingerprint of the table file (the task pane keeps rows, not the file). */
+export const NO_FINGERPRINT = 'not recorded (imported in the pane)';
+/** What the block says of the built-in demo table, which is no file. */
+const DEMO_FINGERPRINT = 'none: the built-in demo table is not a file';
+
+/** The number format that shows `decimals` decimals ("0", "0.0", "0.00", …). */
+export function decimalsFormat(decimals: number): string {
+  return decimals === 0 ? '0' : `0.${'0'.repeat(decimals)}`;
+}
+
+/** More decimals than a double holds digits for are left to the cell's own format. */
+const MAX_SHOWN_DECIMALS = 15;
 
 /** New-sheet column order: inputs and results first; the long text columns (source, note) last, where their text can run on. */
 const NEW_SHEET_ORDER: readonly FillField[] = ['analyte', 'specimen', 'unit', 'cvi', 'cvg', 'tier', 'spec_cv', 'spec_bias', 'spec_total', 'spec_mu'];
@@ -232,7 +245,7 @@ function requestProblems(req: FillRequest, rows: readonly VariationRow[]): PlanP
   if (!/^\d{4}-\d{2}-\d{2}$/.test(req.date)) problems.push({ where: '', message: `date must be YYYY-MM-DD (got ${req.date})` });
   const decimals = req.decimals ?? 2;
   if (!(Number.isInteger(decimals) && decimals >= 0 && decimals <= 15)) problems.push({ where: '', message: `decimals must be a whole number from 0 to 15 (got ${decimals})` });
-  if (req.tableSha256 !== undefined && !/^[0-9a-f]{64}$/.test(req.tableSha256)) problems.push({ where: '', message: 'tableSha256 must be 64 lower-case hex digits' });
+  if (req.tableSha256 !== undefined && !/^[0-9a-f]{64}$/.test(req.tableSha256)) problems.push({ where: '', message: `the table's SHA-256 must be 64 lower-case hex digits (got ${req.tableSha256})` });
   return problems;
 }
 
@@ -245,28 +258,30 @@ interface Common {
   readonly decimals: number;
 }
 
+/**
+ * The provenance as label and value pairs, the same on every sheet a fill writes (a new sheet, the
+ * rows below a template's table, a provenance sheet of its own): the table file's SHA-256 when the
+ * caller read the file, else why there is none.
+ */
 function provenancePairs(req: FillRequest, p: Provenance): Array<[string, string]> {
-  const pairs: Array<[string, string]> = [
-    ['Table', req.table.name],
-    ['Table source', req.table.origin || '(not recorded)'],
-  ];
-  if (p.tableSha256) pairs.push(['Table file SHA-256', p.tableSha256]);
-  pairs.push(
-    ['Table rows', String(p.tableRows)],
-    ['Table imported', req.table.importedAt.slice(0, 10)],
+  return [
+    ['Table', p.tableName],
+    ['Table source', p.tableOrigin || '(not recorded)'],
+    ['Table SHA-256', p.tableSha256 ?? (p.demo ? DEMO_FINGERPRINT : NO_FINGERPRINT)],
+    ['Table rows', `${p.tableRows} in the table; ${p.rowsFilled} filled here`],
+    ['Table imported', p.tableImported.slice(0, 10)],
     ['Data sources', summariseSources(p.sources)],
-    ['Filled on', req.date],
+    ['Filled on', p.date],
     ['Program', `Leeway ${p.version}`],
     [
       'Derived columns',
-      req.mode === 'live'
+      p.mode === 'live'
         ? 'live LEEWAY formulas (the Leeway add-in computes them)'
         : req.target.kind === 'new-sheet'
           ? "values computed at fill time; each column's formula is in its header's note and below"
           : "values computed at fill time; each column's formula is below",
     ],
-  );
-  return pairs;
+  ];
 }
 
 /** Plans a fill. Never throws for bad input: a request that cannot be planned returns its problems. */
@@ -281,8 +296,9 @@ export function planFill(req: FillRequest): PlanResult {
     tableName: req.table.name,
     tableOrigin: req.table.origin,
     tableImported: req.table.importedAt,
-    tableSha256: req.tableSha256 ?? '',
+    tableSha256: req.tableSha256 ?? null,
     tableRows: req.table.rows.length,
+    rowsFilled: rows.length,
     sources,
     tier: req.tier,
     z: req.z,
@@ -291,7 +307,7 @@ export function planFill(req: FillRequest): PlanResult {
     mode: req.mode,
     demo: req.table.demo,
   };
-  const common: Common = { rows, rowTiers: req.rowTiers ?? {}, provenance, decimals, format: decimals === 0 ? '0' : `0.${'0'.repeat(decimals)}` };
+  const common: Common = { rows, rowTiers: req.rowTiers ?? {}, provenance, decimals, format: decimalsFormat(decimals) };
   return req.target.kind === 'new-sheet' ? planNewSheet(req, req.target.sheetName, common) : planTemplate(req, req.target, common);
 }
 
@@ -336,6 +352,37 @@ function inputContent(f: FillField, row: VariationRow, rowTier: Tier | undefined
     default:
       return undefined;
   }
+}
+
+/**
+ * The number format of an input number written with a known count of decimals ("14.0" → "0.0"),
+ * or none (the cell's own format). On a template (`onlyWhereShown`) the format is planned only
+ * where it changes what the page shows: a General cell already shows 5.7 as 5.7, but 14.0 as 14,
+ * so only the second gets a format, and the lab's styles part changes only where it must. A
+ * template cell that has a format of its own keeps it: the command line's package writer applies a
+ * planned format only over General (the task pane has no written decimals to pass: its library
+ * keeps numbers, not the file's text).
+ */
+function writtenFormat(req: FillRequest, key: string, f: FillField, content: CellContent, onlyWhereShown = false): { format?: string } {
+  if (content.kind !== 'number') return {};
+  const written = req.writtenDecimals?.[key]?.[f as NumericField];
+  if (written === undefined || written > MAX_SHOWN_DECIMALS) return {};
+  if (onlyWhereShown && generalShows(content.value, written)) return {};
+  return { format: decimalsFormat(written) };
+}
+
+/**
+ * True when a cell formatted General certainly shows `x` with exactly `decimals` decimals: its
+ * shortest decimal form has them, no exponent, and at most 10 significant digits (General shows
+ * up to 11 characters in a column of the default width; common practice, no source). When in doubt
+ * false, and the format is written.
+ */
+function generalShows(x: number, decimals: number): boolean {
+  const s = String(Math.abs(x));
+  if (/e/i.test(s)) return false;
+  const [whole, fraction = ''] = s.split('.');
+  const digits = (whole.replace(/^0+/, '') + fraction).replace(/^0+/, '').length;
+  return digits <= 10 && fraction.length === decimals;
 }
 
 function blockText(req: FillRequest, c: Common, derived: readonly PlannedColumn[], firstRow: number | undefined, letters: Partial<Record<FillField, string>>, documents?: string, sheetNote = ''): BlockText {
@@ -409,7 +456,7 @@ function planNewSheet(req: FillRequest, sheetName: string, c: Common): PlanResul
         continue;
       }
       const content = inputContent(f, row, c.rowTiers[key]);
-      if (content) put(at, col.col, content, f === 'tier' ? 'row-tier' : 'input');
+      if (content) put(at, col.col, content, f === 'tier' ? 'row-tier' : 'input', writtenFormat(req, key, f, content));
     }
   });
   cells.sort((p, q) => p.row - q.row || p.col - q.col);
@@ -611,6 +658,8 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
     placements.push(...appended);
   }
   placements.sort((p, q) => p.at - q.at);
+  // The provenance counts the table rows this sheet received (matched or appended), each once.
+  const counted: Common = { ...c, provenance: { ...c.provenance, rowsFilled: new Set(placements.map((p) => rowKey(p.row.analyte, p.row.specimen))).size } };
   const tableBottom = Math.max(lastDataRow, ...appended.map((p) => p.at));
 
   // 5. The cells of the rows, and what each derived formula will read.
@@ -664,10 +713,10 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
   let provenanceAt: string;
   const tableRange = rangeText({ top: headerRow, left, bottom: tableBottom, right });
   if (t.blockAt) {
-    block = besideBlock(t.blockAt, blockText(req, c, derivedCols, firstRow, letters));
+    block = besideBlock(t.blockAt, blockText(req, counted, derivedCols, firstRow, letters));
     provenanceAt = `${rangeText({ top: block.cells[0].row, left: t.blockAt.col, bottom: block.bottom, right: block.right })} (the place asked for)`;
   } else {
-    const below = belowBlock(tableBottom + 2, left, span, (col) => index.width(col), blockText(req, c, derivedCols, firstRow, letters));
+    const below = belowBlock(tableBottom + 2, left, span, (col) => index.width(col), blockText(req, counted, derivedCols, firstRow, letters));
     let free = true;
     for (let r = tableBottom + 1; r <= below.bottom && free; r++) free = index.rowIsEmpty(r);
     if (free) {
@@ -678,7 +727,7 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
       tierPrefix = sheetPrefix(name);
       const documents = `sheet "${s.name}", ${tableRange} (header row ${headerRow}): its formulas read the tier and z cells below`;
       // Two columns that print on one portrait page (58 characters in all), long values wrapped.
-      block = besideBlock({ row: 1, col: 1 }, blockText(req, c, derivedCols, firstRow, letters, documents, `sheet "${s.name}", `), tierPrefix, PROVENANCE_VALUE_WIDTH - 2);
+      block = besideBlock({ row: 1, col: 1 }, blockText(req, counted, derivedCols, firstRow, letters, documents, `sheet "${s.name}", `), tierPrefix, PROVENANCE_VALUE_WIDTH - 2);
       blockSheet = { name, cells: toPlanned(block.cells), columnWidths: { 1: PROVENANCE_LABEL_WIDTH, 2: PROVENANCE_VALUE_WIDTH } };
       provenanceAt = `the sheet "${name}" (the rows below the table are not empty)`;
     }
@@ -700,7 +749,7 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
       if (p.matched && (f === 'analyte' || f === 'specimen')) continue;
       const content = inputContent(f, row, rowTier);
       const existing = index.get(p.at, col.col);
-      if (content && target(p.at, col.col, content, f === 'tier' ? 'row-tier' : 'input')) {
+      if (content && target(p.at, col.col, content, f === 'tier' ? 'row-tier' : 'input', writtenFormat(req, key, f, content, true))) {
         eff[f] = content.kind === 'number' ? content.value : content.kind === 'text' ? content.text : 'unknown';
         continue;
       }
@@ -811,7 +860,7 @@ function planTemplate(req: FillRequest, t: TemplateTarget, c: Common): PlanResul
       overwrite,
       writable: true,
       columnWidths: {},
-      provenance: c.provenance,
+      provenance: counted.provenance,
       template,
     },
   };

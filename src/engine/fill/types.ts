@@ -5,7 +5,7 @@
 import type { ErrorCode } from '../errors';
 import type { Tier } from '../tiers';
 import type { CellRef } from './a1';
-import type { Field, VariationRow, VariationTable } from '../table/types';
+import type { Field, VariationRow, VariationTable, WrittenDecimals } from '../table/types';
 
 /** "live": derived columns as LEEWAY formulas (with their results); "values": as numbers, the formula in each header's note. */
 export type FillMode = 'live' | 'values';
@@ -183,8 +183,20 @@ export interface FillRequest {
   readonly decimals?: number;
   /** Program version for the provenance; default src/engine/version.ts. */
   readonly version?: string;
-  /** SHA-256 of the table file as read (hex), when the table came from a file. */
+  /**
+   * SHA-256 of the table file, bytes as read (64 lower-case hex digits), so the sheet names one
+   * exact version of the table. Absent: the block says it was not recorded (a table kept in the
+   * task pane's library no longer has its file's bytes) or, for the built-in demo table, that
+   * there is no file.
+   */
   readonly tableSha256?: string;
+  /**
+   * Decimals each input number was written with in the table file, by rowKey(analyte, specimen)
+   * (the importer's ImportResult.decimals): input cells show them ("14.0" stays 14.0). On a
+   * template only where the cell's own format is General and General would show fewer decimals
+   * (see writtenFormat in plan.ts). Absent: input numbers keep the cell's own format.
+   */
+  readonly writtenDecimals?: Readonly<Record<string, WrittenDecimals>>;
 }
 
 /** One column the plan fills. */
@@ -208,10 +220,12 @@ export interface Provenance {
   readonly tableName: string;
   readonly tableOrigin: string;
   readonly tableImported: string;
-  /** SHA-256 of the table file (hex), or "" when not known. */
-  readonly tableSha256: string;
+  /** SHA-256 of the table file's bytes (hex), or null when not recorded (the block then says why: NO_FINGERPRINT, or no file for the demo table). */
+  readonly tableSha256: string | null;
   /** Rows of the table (all of them, not only those filled). */
   readonly tableRows: number;
+  /** Table rows this fill wrote (on a template: the rows matched or appended, each counted once). */
+  readonly rowsFilled: number;
   readonly sources: readonly string[];
   readonly tier: Tier;
   readonly z: number;

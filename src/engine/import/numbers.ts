@@ -143,3 +143,19 @@ export function resolveAmbiguous(
   const fix = `write ${plain(r.asThousands)} for ${plain(r.asThousands)}, or "${decimalSpelling(text, r.mark)}" for ${plain(r.asDecimal)}`;
   return { why: `${both}, and ${why}: ${fix} (a thousands separator, or exactly three decimals, leaves the mark in doubt)` };
 }
+
+/**
+ * How many decimals a number is written with: the digits after its decimal mark ("14.0" → 1,
+ * "5,70" → 2, "1,234.5" → 1, "12" and "5." → 0). `mark` is the decimal mark it was read with
+ * (null: it shows none). Undefined for exponent notation ("1.5e-3"), which fixes no count of
+ * decimals. A display fact only: the value read is the same.
+ */
+export function decimalsWritten(text: string, mark: Mark | null): number | undefined {
+  let t = text.trim().replace(/\u00A0|\u202F/g, ' ');
+  if (t.endsWith('%')) t = t.slice(0, -1).trimEnd();
+  if (/[eE]/.test(t)) return undefined;
+  if (mark === null) return 0;
+  const at = t.lastIndexOf(mark);
+  if (at < 0) return 0;
+  return /^\d*/.exec(t.slice(at + 1))![0].length;
+}

@@ -17,7 +17,7 @@ import { IMPORT_LIMITS, describeBytes } from './limits';
 import { guessDelimiter, splitRecords } from './records';
 import { readHeader, headerUnit, sameUnit } from './headers';
 import type { HeaderSpec } from './headers';
-import { decideDecimalMark, readNumberText, resolveAmbiguous } from './numbers';
+import { decideDecimalMark, decimalsWritten, readNumberText, resolveAmbiguous } from './numbers';
 import type { DecimalDecision, MarkEvidence } from './numbers';
 import { decideDateOrder, readDateText } from './dates';
 import type { DateOrder } from './dates';
@@ -197,6 +197,12 @@ export interface RowReader<F extends string> {
   text(f: F): string;
   /** null when blank or absent; undefined when unreadable (the problem is already recorded). */
   number(f: F): number | null | undefined;
+  /**
+   * How many decimals the field's number is written with in the file ("14.0" → 1), for showing it
+   * as written; undefined when blank, unreadable, in exponent notation, or already a number (a
+   * worksheet range).
+   */
+  decimals(f: F): number | undefined;
   /** ISO 8601; null when blank or absent; undefined when unreadable (recorded). */
   date(f: F): string | null | undefined;
   /** Records a problem on this row, in the field's column (or the column given). */
@@ -386,6 +392,19 @@ function rowReader<F extends string>(
         return undefined;
       }
       add('error', 'not-a-number', f, `${f} must be a number (got "${t.length > 40 ? t.slice(0, 40) + '…' : t}"); use . or , as the decimal mark and no thousands separator`);
+      return undefined;
+    },
+    decimals(f) {
+      if (typeof raw(f) === 'number') return undefined;
+      const t = text(f);
+      if (t === '') return undefined;
+      const r = readNumberText(t);
+      if (r.kind === 'number') return decimalsWritten(t, r.decimal);
+      if (r.kind === 'ambiguous') {
+        const d = resolveAmbiguous(t, r, decision);
+        if (!('value' in d)) return undefined;
+        return decimalsWritten(t, d.value === r.asDecimal && d.value !== r.asThousands ? r.mark : null);
+      }
       return undefined;
     },
     date(f) {

@@ -14,6 +14,8 @@ export type {
   Severity,
   VariationRow,
   VariationTable,
+  NumericField,
+  WrittenDecimals,
 } from './types';
 export { FIELDS, NUMERIC_FIELDS, REQUIRED_FIELDS } from './types';
 export { HEADER_ALIASES, TABLE_KIND, mapColumns, matchHeader, normaliseHeader } from './fields';

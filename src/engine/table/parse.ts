@@ -7,7 +7,7 @@
  * here.
  */
 import { TABLE_KIND } from './fields';
-import type { Field, ImportOptions, ImportResult, VariationRow, VariationTable } from './types';
+import type { Field, ImportOptions, ImportResult, NumericField, VariationRow, VariationTable, WrittenDecimals } from './types';
 import { NUMERIC_FIELDS, REQUIRED_FIELDS } from './types';
 import { checkUnits, makeReport, prepareBytes, prepareGrid, prepareText, readRows } from '../import/read';
 import type { Prepared, RowReader } from '../import/read';
@@ -40,8 +40,16 @@ export function parseTableGrid(grid: readonly (readonly GridCell[])[], options: 
 function readTable(prepared: Prepared<Field>, options: ImportOptions): ImportResult {
   if (!prepared.ok) return prepared.report;
   const seen = new Map<string, number>();
+  const decimals: Record<string, WrittenDecimals> = {};
   const { sheet } = prepared;
-  const read = readRows(TABLE_KIND, sheet, options, (row) => tableRow(row, seen));
+  const read = readRows(TABLE_KIND, sheet, options, (row) => {
+    const r = tableRow(row, seen);
+    if (r) {
+      const d = writtenDecimals(row);
+      if (d) decimals[rowKey(r.analyte, r.specimen)] = d;
+    }
+    return r;
+  });
   const report: ImportReport<Field> = makeReport<Field>({ problems: read.problems, columns: read.columns, delimiter: sheet.delimiter, rowCount: read.rowCount, encoding: sheet.encoding, decimal: read.decimal });
   if (!report.ok) return report;
   const candidate: VariationTable = {
@@ -51,7 +59,21 @@ function readTable(prepared: Prepared<Field>, options: ImportOptions): ImportRes
     demo: options.demo ?? false,
     rows: read.records,
   };
-  return { ...report, candidate };
+  return Object.keys(decimals).length ? { ...report, candidate, decimals } : { ...report, candidate };
+}
+
+/** The decimals of a row's numbers as written, or undefined when none shows a count (a worksheet range). */
+function writtenDecimals(row: RowReader<Field>): WrittenDecimals | undefined {
+  const out: Partial<Record<NumericField, number>> = {};
+  let any = false;
+  for (const f of NUMERIC_FIELDS) {
+    const d = row.has(f) ? row.decimals(f) : undefined;
+    if (d !== undefined) {
+      out[f] = d;
+      any = true;
+    }
+  }
+  return any ? out : undefined;
 }
 
 /** One data row: required cells, numbers and their ranges, the level an absolute limit needs, duplicates. */

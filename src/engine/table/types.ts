@@ -11,7 +11,15 @@ export const FIELDS: readonly Field[] = ['analyte', 'specimen', 'unit', 'cvi', '
 
 export const REQUIRED_FIELDS: readonly Field[] = ['analyte', 'cvi', 'source'];
 
-export const NUMERIC_FIELDS: readonly Field[] = ['cvi', 'cvg', 'limit_abs', 'limit_pct', 'level'];
+export type NumericField = 'cvi' | 'cvg' | 'limit_abs' | 'limit_pct' | 'level';
+
+export const NUMERIC_FIELDS: readonly NumericField[] = ['cvi', 'cvg', 'limit_abs', 'limit_pct', 'level'];
+
+/**
+ * How many decimals each number of a row is written with in the file ("14.0" → 1), so that a
+ * sheet can show it as the user wrote it. A display fact beside the row, never part of its value.
+ */
+export type WrittenDecimals = Readonly<Partial<Record<NumericField, number>>>;
 
 /** One analyte and specimen. Optional numbers are null when the cell is blank. */
 export interface VariationRow {
@@ -87,4 +95,9 @@ export interface ImportOptions {
  */
 export interface ImportResult extends ImportReport<Field> {
   readonly candidate?: VariationTable;
+  /**
+   * Decimals each number is written with, by rowKey(analyte, specimen); present with the
+   * candidate when the table was read from a file or text (a worksheet range gives numbers).
+   */
+  readonly decimals?: Readonly<Record<string, WrittenDecimals>>;
 }

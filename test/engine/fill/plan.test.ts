@@ -289,3 +289,43 @@ describe('planFill properties (seed 20260203)', () => {
     }
   });
 });
+
+describe('planFill: the table’s fingerprint and the decimals it was written with', () => {
+  const t = table([row('Arvelin', 14, 6.9), row('Brontase', 12.4, 18.1)]);
+  const pairOf = (p: FillPlan, label: string): string | undefined => {
+    const l = p.cells.find((c) => c.role === 'label' && c.content.kind === 'text' && c.content.text === label);
+    const v = l && p.cells.find((c) => c.row === l.row && c.col === l.col + 1);
+    return v && v.content.kind === 'text' ? v.content.text : undefined;
+  };
+
+  test('the block records the table file’s SHA-256 and its row count', () => {
+    // SHA-256 of the empty string, FIPS 180-4 test vector (NIST, from memory; checked with sha256sum).
+    const sha = 'e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855';
+    const p = plan({ table: t, rows: [t.rows[1]], tableSha256: sha });
+    expect(pairOf(p, 'Table SHA-256')).toBe(sha);
+    expect(pairOf(p, 'Table rows')).toBe('2 in the table; 1 filled here');
+    expect(p.provenance).toMatchObject({ tableSha256: sha, tableRows: 2, rowsFilled: 1 });
+  });
+
+  test('without a fingerprint the block says it was not recorded; the demo table says it is no file', () => {
+    expect(pairOf(plan({ table: t }), 'Table SHA-256')).toBe('not recorded (imported in the pane)');
+    expect(pairOf(plan({ table: table([row('Arvelin', 5.7, 6.9)], true) }), 'Table SHA-256')).toMatch(/^none: the built-in demo table/);
+    expect(plan({ table: t }).provenance.tableSha256).toBeNull();
+  });
+
+  test('a malformed fingerprint is refused', () => {
+    const r = planFill({ table: t, tier: 'desirable', z: 1.65, mode: 'live', target: { kind: 'new-sheet', sheetName: 'S' }, date: '2026-02-03', tableSha256: 'abc' });
+    expect(r.ok === false && r.problems[0].message).toMatch(/SHA-256/);
+  });
+
+  test('input numbers carry the decimals they were written with (14.0 → "0.0"); without them no format', () => {
+    const written = { [rowKey('Arvelin', 'serum')]: { cvi: 1, cvg: 2 } };
+    const p = plan({ table: t, writtenDecimals: written });
+    const r0 = p.rows[0].row;
+    expect(at(p, `${colOf(p, 'cvi')}${r0}`)).toMatchObject({ content: { kind: 'number', value: 14 }, format: '0.0' });
+    expect(at(p, `${colOf(p, 'cvg')}${r0}`)!.format).toBe('0.00');
+    expect(at(p, `${colOf(p, 'cvi')}${p.rows[1].row}`)!.format).toBeUndefined();
+    const bare = plan({ table: t });
+    expect(at(bare, `${colOf(bare, 'cvi')}${bare.rows[0].row}`)!.format).toBeUndefined();
+  });
+});

@@ -6,9 +6,10 @@
  * docs/reference/templates.md), checked cell by cell. The default column width of 8.43
  * characters is common practice, no source.
  */
-import { planFill, findHeaderRow, formatTemplateReport, PROVENANCE_SHEET, CAUTION } from '../../../src/engine/fill';
+import { planFill, findHeaderRow, formatTemplateReport, PROVENANCE_SHEET, CAUTION, NO_FINGERPRINT } from '../../../src/engine/fill';
 import type { FillPlan, FillRequest, SheetCell, SheetSnapshot, TemplateTarget } from '../../../src/engine/fill';
 import type { VariationRow, VariationTable } from '../../../src/engine/table';
+import { rowKey } from '../../../src/engine/table/parse';
 import { evaluate } from '../../../src/registry';
 import { mulberry32 } from '../../support/prng';
 
@@ -307,6 +308,40 @@ describe('where the provenance goes', () => {
     const s = sheet({ A1: 'Analyte', B1: 'CVI %', A2: 'Sodium' }, { printArea: [{ top: 1, left: 1, bottom: 2, right: 2 }] });
     const p = plan([row('Sodium', '', 0.5, 0.7)], { sheet: s });
     expect(p.template.notes.join('\n')).toMatch(/print area \(A1:B2\) leaves out the provenance block/);
+  });
+});
+
+describe('the provenance and the written decimals, as on a new sheet', () => {
+  const small = (): SheetSnapshot => sheet({ A1: 'Analyte', B1: 'Specimen', C1: 'CVI %', D1: 'CVG %', A2: 'Sodium', B2: 'Serum' });
+  const blockText = (p: FillPlan): string =>
+    p.cells
+      .filter((c) => c.col === 1 && c.row >= 4 && c.content.kind === 'text')
+      .map((c) => (c.content.kind === 'text' ? c.content.text : ''))
+      .join(' ');
+
+  test('the block counts the table rows the template received, and says so when the fill has no SHA-256 of the table file (the pane)', () => {
+    const rows = [row('Sodium', 'Serum', 0.5, 0.7), row('Chloride', 'Serum', 1.1, 1.3)];
+    const p = plan(rows, { sheet: small() });
+    expect(p.provenance).toMatchObject({ tableSha256: null, tableRows: 2, rowsFilled: 1 });
+    const text = blockText(p).replace(/\s+/g, ' ');
+    expect(text).toContain(`Table SHA-256: ${NO_FINGERPRINT}`);
+    expect(text).toContain('Table rows: 2 in the table; 1 filled here');
+    // Appended rows count as filled.
+    const appended = plan(rows, { sheet: small(), append: true });
+    expect(appended.provenance.rowsFilled).toBe(2);
+  });
+
+  test('an input number written with trailing zeros gets a format only where General would drop them (14.0, 0.70), not where it shows them already (0.5)', () => {
+    const p = plan([row('Sodium', 'Serum', 14, 0.7), row('Chloride', 'Serum', 0.5, 1.3)], { sheet: sheet({ A1: 'Analyte', B1: 'Specimen', C1: 'CVI %', D1: 'CVG %', A2: 'Sodium', B2: 'Serum', A3: 'Chloride', B3: 'Serum' }) }, {
+      writtenDecimals: { [rowKey('Sodium', 'Serum')]: { cvi: 1, cvg: 2 }, [rowKey('Chloride', 'Serum')]: { cvi: 1, cvg: 1 } },
+    });
+    expect(cell(p, 'C2')).toMatchObject({ content: { kind: 'number', value: 14 }, format: '0.0' });
+    expect(cell(p, 'D2')).toMatchObject({ content: { kind: 'number', value: 0.7 }, format: '0.00' });
+    expect(cell(p, 'C3')!.format).toBeUndefined();
+    expect(cell(p, 'D3')!.format).toBeUndefined();
+    // Without written decimals (a table from the pane's library) no input cell gets a format.
+    const bare = plan([row('Sodium', 'Serum', 14, 0.7)], { sheet: small() });
+    expect(cell(bare, 'C2')!.format).toBeUndefined();
   });
 });
 
