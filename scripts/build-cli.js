@@ -10,6 +10,6 @@ require('esbuild').buildSync({
   target: 'node20',
   format: 'cjs',
   sourcemap: true,
-  external: ['exceljs', 'papaparse', 'jszip', 'saxes'],
+  external: ['exceljs', 'papaparse', 'jszip', 'saxes', '@resvg/resvg-js'],
   logLevel: 'warning',
 });
