@@ -5,11 +5,15 @@
  */
 import { divError, numError } from './errors';
 
-/** Formats a number for a message: up to 10 significant digits, no exponent for ordinary sizes. */
+/**
+ * Formats a number for a message as the user typed it: the shortest decimal that reads back as
+ * the same double (JavaScript's own number-to-text rule), so 2.0000000001 stays 2.0000000001 and
+ * 1.7976931348623157e308 is not shown as Infinity; exponent form below 1e-6 and from 1e21.
+ */
 export function show(x: number): string {
   if (Number.isNaN(x)) return 'NaN';
   if (!Number.isFinite(x)) return x > 0 ? 'Infinity' : '-Infinity';
-  return String(Number(x.toPrecision(10)));
+  return String(x);
 }
 
 /** Any finite number (NaN and ±Infinity are out of range). */
@@ -48,4 +52,20 @@ export function wholeNumber(x: number, name: string, min = 1): number {
   if (!Number.isInteger(x)) throw numError(`${name} must be a whole number (got ${show(x)})`);
   if (x < min) throw numError(`${name} must be at least ${min} (got ${show(x)})`);
   return x;
+}
+
+/** "cvi is 1e+308, cvg is 2": the inputs of a formula, each as the user gave it. */
+export function describeInputs(inputs: Readonly<Record<string, number>>): string {
+  return Object.entries(inputs)
+    .map(([name, x]) => `${name} is ${show(x)}`)
+    .join(', ');
+}
+
+/**
+ * A result that must be a finite double: x itself, or #NUM! when the exact result is beyond
+ * ±1.8e308 (x is ±Infinity), with a message that names the inputs (`what` names the result).
+ */
+export function fits(x: number, inputs: Readonly<Record<string, number>>, what = 'the result'): number {
+  if (x - x === 0) return x;
+  throw numError(`${what} exceeds the largest number Excel can hold (about 1.8e308 in size): ${describeInputs(inputs)}`);
 }

@@ -13,6 +13,8 @@
  * 1e-15, relative accuracy of the lower tail about 1e-8 beyond 7 SD (checked against stdlib).
  */
 
+import { ldexp } from './scaled';
+
 const A = [
   3.387132872796366608, 133.14166789178437745, 1971.5909503065514427, 13731.693765509461125,
   45921.953931549871457, 67265.770927008700853, 33430.575583588128105, 2509.0809287301226727,
@@ -53,21 +55,42 @@ export function normalQuantile(p: number): number {
   if (p === 0) return -Infinity;
   if (p === 1) return Infinity;
   const q = p - 0.5;
-  if (Math.abs(q) <= 0.425) {
-    const r = 0.180625 - q * q;
-    return (q * poly(A, r)) / poly(B, r);
-  }
-  let r = q < 0 ? p : 1 - p;
-  r = Math.sqrt(-Math.log(r));
-  let x: number;
-  if (r <= 5) {
-    r -= 1.6;
-    x = poly(C, r) / poly(D, r);
-  } else {
-    r -= 5;
-    x = poly(E, r) / poly(F, r);
-  }
+  if (Math.abs(q) <= 0.425) return central(q);
+  const x = tail(q < 0 ? p : 1 - p);
   return q < 0 ? -x : x;
+}
+
+/**
+ * Φ⁻¹((1 + p)/2), the two-sided quantile, for 0 ≤ p < 1, without forming (1 + p)/2: the offset
+ * from the centre p/2 and the upper tail (1 − p)/2 are exact, so a p close to 0 (down to the
+ * smallest subnormal) or close to 1 keeps its digits. Near 0 the quantile is p·√(2π)/2 (the
+ * next term is smaller by p²), taken on p·2^200 and scaled back once, so a subnormal result is
+ * rounded once.
+ */
+export function normalQuantileTwoSided(p: number): number {
+  if (Number.isNaN(p) || p < 0 || p >= 1) return p === 1 ? Infinity : NaN;
+  if (p < 2 ** -60) return ldexp(ldexp(p, 200) * HALF_SQRT_2PI, -200);
+  const q = p / 2;
+  return q <= 0.425 ? central(q) : tail((1 - p) / 2);
+}
+
+const HALF_SQRT_2PI = 1.2533141373155002512; // √(2π)/2
+
+/** Φ⁻¹(0.5 + q), |q| ≤ 0.425 (AS 241, first region). */
+function central(q: number): number {
+  const r = 0.180625 - q * q;
+  return (q * poly(A, r)) / poly(B, r);
+}
+
+/** Φ⁻¹(1 − r) = −Φ⁻¹(r), 0 < r < 0.075 (AS 241, tail regions). */
+function tail(r: number): number {
+  let s = Math.sqrt(-Math.log(r));
+  if (s <= 5) {
+    s -= 1.6;
+    return poly(C, s) / poly(D, s);
+  }
+  s -= 5;
+  return poly(E, s) / poly(F, s);
 }
 
 const SQRT_2PI = 2.5066282746310002;

@@ -5,9 +5,28 @@
  * Clin Chem Lab Med 2015;53:833–5 (model 2, biological variation).
  */
 import { BIAS_FACTOR, IMPRECISION_FACTOR, TIERS, Tier } from './tiers';
-import { divisor, nonNegative, positive } from './guards';
+import { divisor, fits, nonNegative, positive } from './guards';
+import { Scaled, compare, hypotenuse, inBand, over, plus, scaled, times, toDouble } from './scaled';
 
-/** SPEC.CV: allowable imprecision = f·CVI. cvi ≥ 0. */
+/*
+ * Range: every input may be any finite double. Inputs within 2^-400 … 2^400 (or 0) take the plain
+ * formula, which cannot leave the normal range there; others take it on scaled numbers
+ * (scaled.ts: products, and the root of the sum of squares as a hypot), so no intermediate
+ * overflows or underflows; the result is rounded once into the double range, and a result beyond
+ * ±1.8e308 is #NUM! naming the inputs.
+ */
+
+/** g·√(CVI² + CVG²) as a scaled number (the square root by hypot on scaled numbers). */
+export function allowableBiasScaled(cvi: number, cvg: number, tier: Tier): Scaled {
+  return times(scaled(BIAS_FACTOR[tier]), hypotenuse(scaled(cvi), scaled(cvg)));
+}
+
+/** z·f·CVI + g·√(CVI² + CVG²) as a scaled number, evaluated as (z·f)·CVI + g·√(…). */
+export function allowableTotalErrorScaled(cvi: number, cvg: number, tier: Tier, z: number): Scaled {
+  return plus(times(times(scaled(z), scaled(IMPRECISION_FACTOR[tier])), scaled(cvi)), allowableBiasScaled(cvi, cvg, tier));
+}
+
+/** SPEC.CV: allowable imprecision = f·CVI. cvi ≥ 0. One product, rounded once at any size (f < 1: never overflows). */
 export function allowableImprecision(cvi: number, tier: Tier): number {
   nonNegative(cvi, 'cvi');
   return IMPRECISION_FACTOR[tier] * cvi;
@@ -17,7 +36,8 @@ export function allowableImprecision(cvi: number, tier: Tier): number {
 export function allowableBias(cvi: number, cvg: number, tier: Tier): number {
   nonNegative(cvi, 'cvi');
   nonNegative(cvg, 'cvg');
-  return BIAS_FACTOR[tier] * Math.sqrt(cvi * cvi + cvg * cvg);
+  if (inBand(cvi) && inBand(cvg)) return BIAS_FACTOR[tier] * Math.sqrt(cvi * cvi + cvg * cvg);
+  return toDouble(allowableBiasScaled(cvi, cvg, tier)); // g·√2·1.8e308 < 1.8e308: always finite
 }
 
 /** SPEC.TOTAL: allowable total error = z·f·CVI + g·√(CVI² + CVG²). z ≥ 0 (default 1.65 at the wrapper). */
@@ -25,7 +45,8 @@ export function allowableTotalError(cvi: number, cvg: number, tier: Tier, z: num
   nonNegative(cvi, 'cvi');
   nonNegative(cvg, 'cvg');
   nonNegative(z, 'z');
-  return z * IMPRECISION_FACTOR[tier] * cvi + BIAS_FACTOR[tier] * Math.sqrt(cvi * cvi + cvg * cvg);
+  if (inBand(cvi) && inBand(cvg) && inBand(z)) return z * IMPRECISION_FACTOR[tier] * cvi + BIAS_FACTOR[tier] * Math.sqrt(cvi * cvi + cvg * cvg);
+  return fits(toDouble(allowableTotalErrorScaled(cvi, cvg, tier, z)), { cvi, cvg, z });
 }
 
 /**
@@ -36,7 +57,8 @@ export function allowableTotalError(cvi: number, cvg: number, tier: Tier, z: num
 export function allowableUncertainty(cvi: number, tier: Tier, k: number): number {
   nonNegative(cvi, 'cvi');
   positive(k, 'k');
-  return k * IMPRECISION_FACTOR[tier] * cvi;
+  if (inBand(cvi) && inBand(k)) return k * IMPRECISION_FACTOR[tier] * cvi;
+  return fits(toDouble(times(times(scaled(k), scaled(IMPRECISION_FACTOR[tier])), scaled(cvi))), { cvi, k });
 }
 
 /**
@@ -48,7 +70,10 @@ export function fixedLimitPercent(level: number, absolute: number, percent: numb
   divisor(level, 'level');
   nonNegative(absolute, 'absolute');
   nonNegative(percent, 'percent');
-  return Math.max((100 * absolute) / level, percent);
+  if (inBand(absolute) && inBand(level)) return Math.max((100 * absolute) / level, percent);
+  const fromAbsolute = over(times(scaled(100), scaled(absolute)), scaled(level));
+  if (compare(fromAbsolute, scaled(percent)) <= 0) return percent;
+  return fits(toDouble(fromAbsolute), { level, absolute });
 }
 
 export interface TierRow {

@@ -18,12 +18,23 @@
  * Units: slope is unitless, intercept and bias in the unit of the results, bias % in percent of
  * the level. Domain (all methods): x and y paired, at least 3 pairs (#NUM!), x not all equal
  * (#DIV/0!). The confidence level is a parameter here (the worksheet function uses 0.95).
+ *
+ * Range: any finite doubles. Deming and OLS work on x·2^-kx and y·2^-ky, each scaled by the power
+ * of two that brings its largest magnitude to 0.5 … 1 when that lies outside 2^-400 … 2^400
+ * (scaleData in describe.ts; exact), with the error-variance ratio carried as λ·2^(2kx − 2ky) in
+ * scaled arithmetic (scaled.ts); slopes are scaled back by 2^(ky − kx), intercepts by 2^ky, once.
+ * Passing–Bablok takes the differences of the data as they are (scaling could merge tiny values),
+ * halving one that would overflow, and holds each slope as dy/dx·2^(kx − ky) (the same exponents),
+ * so the slopes and the residuals y − b·x are right when the slope itself is beyond the double
+ * range. An estimate beyond ±1.8e308 is #NUM!; an interval bound beyond it is not given (its
+ * cell says why).
  */
-import { divError, numError, valueError } from '../errors';
+import { LeewayError, divError, numError, valueError } from '../errors';
 import { nonNegative, openProbability, positive, show } from '../guards';
 import { makeWordReader } from '../words';
 import { normalQuantile } from '../normal';
-import { mean } from './describe';
+import { bandExponent, mean, scaleData } from './describe';
+import { Scaled, compare, hypotenuse, ldexp, minus, over, plus, root, scaled, times, timesPow2, toDouble } from '../scaled';
 import { tQuantile } from './studentT';
 
 export type CompareMethod = 'passing-bablok' | 'deming' | 'ols';
@@ -72,20 +83,57 @@ function checkPairs(x: ArrayLike<number>, y: ArrayLike<number>, confidence: numb
 
 const finiteOrNull = (v: number): number | null => (Number.isFinite(v) ? v : null);
 
+/** (a + b)/2, halving first when the sum would overflow. */
+function midpoint(a: number, b: number): number {
+  const s = 0.5 * (a + b);
+  return s - s === 0 ? s : 0.5 * a + 0.5 * b;
+}
+
 /** Median of a typed array, sorted in place. */
 function medianInPlace(a: Float64Array): number {
   a.sort();
   const n = a.length;
   const h = n >> 1;
-  return n % 2 ? a[h] : 0.5 * (a[h - 1] + a[h]);
+  return n % 2 ? a[h] : midpoint(a[h - 1], a[h]);
 }
 
-/** median(y − b·x). */
-function medianResidual(x: ArrayLike<number>, y: ArrayLike<number>, b: number): number {
+/** y − b·x; when b·x overflows, 2·(y/2 − b·x/2) with the larger factor halved (exact for it). Infinite only beyond ±1.8e308. */
+function residual(x: number, y: number, b: number): number {
+  const r = y - b * x;
+  if (r - r === 0) return r;
+  return 2 * (0.5 * y - (Math.abs(b) >= Math.abs(x) ? 0.5 * b * x : b * (0.5 * x)));
+}
+
+/**
+ * median(y − B·x) for the slope B = b·2^-shift; with shift ≠ 0 each residual is taken on scaled
+ * numbers (B may lie outside the double range) and rounded once.
+ */
+function medianResidual(x: ArrayLike<number>, y: ArrayLike<number>, b: number, shift = 0): number {
   const r = new Float64Array(x.length);
-  for (let i = 0; i < x.length; i++) r[i] = y[i] - b * x[i];
+  if (shift === 0) {
+    for (let i = 0; i < x.length; i++) r[i] = residual(x[i], y[i], b);
+  } else {
+    const B = timesPow2(scaled(b), -shift);
+    for (let i = 0; i < x.length; i++) r[i] = toDouble(minus(scaled(y[i]), times(B, scaled(x[i]))));
+  }
   return medianInPlace(r);
 }
+
+const MINUS_ONE = scaled(-1);
+
+/** The largest magnitude among numbers (for messages). */
+function largest(xs: ArrayLike<number>): number {
+  let top = 0;
+  for (let i = 0; i < xs.length; i++) top = Math.max(top, Math.abs(xs[i]));
+  return top;
+}
+
+/** #NUM! for an estimate beyond the double range, naming the data's sizes. */
+function beyondRange(what: string, x: ArrayLike<number>, y: ArrayLike<number>): LeewayError {
+  return numError(`the ${what} exceeds the largest number Excel can hold (about 1.8e308): x reaches ${show(largest(x))} and y ${show(largest(y))}`);
+}
+
+const BOUND_BEYOND_RANGE = 'an interval bound exceeds the largest number Excel can hold (about 1.8e308), so the interval is not given';
 
 /**
  * Passing–Bablok (1983). For every pair i < j: Sᵢⱼ = (yⱼ − yᵢ)/(xⱼ − xᵢ); a pair of identical
@@ -106,15 +154,25 @@ export function passingBablok(x: ArrayLike<number>, y: ArrayLike<number>, confid
   if (n > MAX_PASSING_BABLOK_PAIRS) {
     throw numError(`Passing–Bablok is limited to ${MAX_PASSING_BABLOK_PAIRS} pairs here (got ${n}); use "deming" or fewer pairs`);
   }
+  // Slopes are held as dy/dx·2^shift, shift = kx − ky (0 for data within 2^±400; scaleData's
+  // exponents), so the slopes of data at the edges of the range lie in the middle of it; their
+  // order is unchanged, and K and the exclusions are decided exactly on scaled numbers.
+  const shift = bandExponent(x) - bandExponent(y);
   const all = new Float64Array((n * (n - 1)) / 2);
   let N = 0;
   let K = 0;
+  let equalX = 0;
   for (let i = 0; i < n; i++) {
     const xi = x[i];
     const yi = y[i];
     for (let j = i + 1; j < n; j++) {
       let dx = x[j] - xi;
       let dy = y[j] - yi;
+      // A difference beyond the double range is held as its half (exact for values that large).
+      const halfX = dx - dx !== 0;
+      const halfY = dy - dy !== 0;
+      if (halfX) dx = 0.5 * x[j] - 0.5 * xi;
+      if (halfY) dy = 0.5 * y[j] - 0.5 * yi;
       if (dx < 0 || (dx === 0 && dy < 0)) {
         dx = -dx;
         dy = -dy;
@@ -122,12 +180,19 @@ export function passingBablok(x: ArrayLike<number>, y: ArrayLike<number>, confid
       if (dx === 0) {
         if (dy === 0) continue; // identical points: no slope
         all[N++] = Infinity;
+        equalX++;
         continue;
       }
-      if (dy === -dx) continue; // a slope of exactly −1 is left out
-      const s = dy / dx;
-      if (s < -1) K++;
-      all[N++] = s;
+      if (halfX === halfY && dy === -dx) continue; // a slope of exactly −1 is left out
+      if (shift === 0 && halfX === halfY) {
+        const s = dy / dx;
+        if (s < -1) K++;
+        all[N++] = s;
+      } else {
+        const r = timesPow2(over(scaled(dy), scaled(dx)), halfX === halfY ? 0 : halfY ? 1 : -1);
+        if (compare(r, MINUS_ONE) < 0) K++;
+        all[N++] = toDouble(timesPow2(r, shift));
+      }
     }
   }
   if (N === 0) throw numError('no pairwise slope is usable (all points identical or on a line of slope −1)');
@@ -140,9 +205,15 @@ export function passingBablok(x: ArrayLike<number>, y: ArrayLike<number>, confid
       `Passing–Bablok needs a positive relation between the methods: ${K} of ${N} slopes are below −1`,
     );
   }
-  const slope = N % 2 ? at(mid) : 0.5 * (at(mid) + at(mid + 1));
-  if (!Number.isFinite(slope)) throw numError('the Passing–Bablok slope is infinite: too many pairs with equal x');
-  const intercept = medianResidual(x, y, slope);
+  const b = N % 2 ? at(mid) : midpoint(at(mid), at(mid + 1));
+  const slope = ldexp(b, -shift);
+  if (!Number.isFinite(slope)) {
+    // +∞ from pairs with equal x (the top equalX ranks), else a ratio beyond the double range.
+    if (b === Infinity && mid + (N % 2 ? 0 : 1) > N - equalX) throw numError('the Passing–Bablok slope is infinite: too many pairs with equal x');
+    throw beyondRange('Passing–Bablok slope', x, y);
+  }
+  const intercept = medianResidual(x, y, b, shift);
+  if (!Number.isFinite(intercept)) throw beyondRange('Passing–Bablok intercept', x, y);
 
   const C = normalQuantile((1 + confidence) / 2) * Math.sqrt((n * (n - 1) * (2 * n + 5)) / 18);
   const M1 = Math.round((N - C) / 2);
@@ -157,15 +228,16 @@ export function passingBablok(x: ArrayLike<number>, y: ArrayLike<number>, confid
   } else {
     const bL = at(M1 + K);
     const bU = at(M2 + K);
-    slopeLow = finiteOrNull(bL);
-    slopeHigh = finiteOrNull(bU);
+    slopeLow = finiteOrNull(ldexp(bL, -shift));
+    slopeHigh = finiteOrNull(ldexp(bU, -shift));
     if (slopeLow !== null && slopeHigh !== null) {
-      const a1 = medianResidual(x, y, bU);
-      const a2 = medianResidual(x, y, bL);
-      interceptLow = Math.min(a1, a2);
-      interceptHigh = Math.max(a1, a2);
+      const a1 = medianResidual(x, y, bU, shift);
+      const a2 = medianResidual(x, y, bL, shift);
+      interceptLow = finiteOrNull(Math.min(a1, a2));
+      interceptHigh = finiteOrNull(Math.max(a1, a2));
+      if (interceptLow === null || interceptHigh === null) intervalNote = BOUND_BEYOND_RANGE;
     } else {
-      intervalNote = 'an interval bound of the slope is infinite (pairs with equal x), so the interval is not given';
+      intervalNote = 'an interval bound of the slope is infinite or exceeds the largest number Excel can hold (pairs with equal or nearly equal x), so the interval is not given';
     }
   }
   return {
@@ -226,19 +298,57 @@ function moments(x: ArrayLike<number>, y: ArrayLike<number>, skip = -1): Moments
   return { n, mx, my, sxx: Math.max(0, sxx - (su * su) / n), syy: Math.max(0, syy - (sv * sv) / n), sxy: sxy - (su * sv) / n };
 }
 
+const TWO = scaled(2);
+
 /**
  * Deming slope for error-variance ratio λ = var(error of y)/var(error of x):
  * b = [(Syy − λSxx) + √((Syy − λSxx)² + 4λSxy²)] / (2Sxy), evaluated in the form that avoids
- * cancellation (2λSxy / [√(…) − (Syy − λSxx)] when Syy − λSxx < 0). Returns NaN when the line
- * is undefined (Sxy = 0 with Syy ≥ λSxx, or Sxx = 0).
+ * cancellation (2λSxy / [√(…) − (Syy − λSxx)] when Syy − λSxx < 0), on scaled numbers (λ may lie
+ * far outside the double range after the data are scaled). Returns NaN when the line is undefined
+ * (Sxy = 0 with Syy ≥ λSxx, or Sxx = 0), ±Infinity when the slope is beyond the double range.
  */
-function demingSlope(m: Moments, ratio: number): number {
+function demingSlope(m: Moments, ratio: Scaled): number {
   if (m.sxx === 0) return NaN;
-  const D = m.syy - ratio * m.sxx;
-  const R = Math.hypot(D, 2 * Math.sqrt(ratio) * m.sxy);
-  if (D < 0) return (2 * ratio * m.sxy) / (R - D);
+  const sxy = scaled(m.sxy);
+  const D = minus(scaled(m.syy), times(ratio, scaled(m.sxx)));
+  const R = hypotenuse(D, times(times(TWO, root(ratio)), sxy));
+  if (D.m < 0) return toDouble(over(times(times(TWO, ratio), sxy), minus(R, D)));
   if (m.sxy === 0) return NaN;
-  return (D + R) / (2 * m.sxy);
+  return toDouble(over(plus(D, R), times(TWO, sxy)));
+}
+
+/** Data scaled for Deming and OLS: x·2^-kx, y·2^-ky (kx = ky = 0 for ordinary data). */
+interface ScaledPairs {
+  readonly x: ArrayLike<number>;
+  readonly y: ArrayLike<number>;
+  readonly kx: number;
+  readonly ky: number;
+}
+
+function scalePairs(x: ArrayLike<number>, y: ArrayLike<number>): ScaledPairs {
+  const sx = scaleData(x);
+  const sy = scaleData(y);
+  return { x: sx.values, y: sy.values, kx: sx.k, ky: sy.k };
+}
+
+/**
+ * A fit on scaled data in the units of the data: slopes × 2^(ky − kx), intercepts × 2^ky, each
+ * rounded once. An estimate beyond ±1.8e308 is #NUM!; an interval bound beyond it is left out.
+ */
+function unscaleFit(fit: LineFit, d: ScaledPairs, x: ArrayLike<number>, y: ArrayLike<number>): LineFit {
+  const slope = ldexp(fit.slope, d.ky - d.kx);
+  if (!Number.isFinite(slope)) throw beyondRange('slope', x, y);
+  const intercept = ldexp(fit.intercept, d.ky);
+  if (!Number.isFinite(intercept)) throw beyondRange('intercept', x, y);
+  if (fit.slopeLow === null || fit.slopeHigh === null || fit.interceptLow === null || fit.interceptHigh === null) {
+    return { ...fit, slope, intercept };
+  }
+  const slopeLow = finiteOrNull(ldexp(fit.slopeLow, d.ky - d.kx));
+  const slopeHigh = finiteOrNull(ldexp(fit.slopeHigh, d.ky - d.kx));
+  const interceptLow = finiteOrNull(ldexp(fit.interceptLow, d.ky));
+  const interceptHigh = finiteOrNull(ldexp(fit.interceptHigh, d.ky));
+  const beyond = slopeLow === null || slopeHigh === null || interceptLow === null || interceptHigh === null;
+  return { ...fit, slope, intercept, slopeLow, slopeHigh, interceptLow, interceptHigh, ...(beyond ? { intervalNote: BOUND_BEYOND_RANGE } : {}) };
 }
 
 /** mean ± the jackknife SE: √((n − 1)/n · Σ(θ₍₋ᵢ₎ − θ̄₍₋₎)²). */
@@ -259,15 +369,22 @@ function jackknifeSe(leaveOut: Float64Array): number {
  * n·b − (n − 1)·b₍₋ᵢ₎ over √n); interval estimate ± t₍1−α/2, n−2₎·SE, centred on the estimate.
  * Swapping x and y (with ratio → 1/ratio) gives exactly the reciprocal slope.
  */
-export function deming(x: ArrayLike<number>, y: ArrayLike<number>, ratio = 1, confidence = 0.95): LineFit {
-  const n = checkPairs(x, y, confidence);
+export function deming(xData: ArrayLike<number>, yData: ArrayLike<number>, ratio = 1, confidence = 0.95): LineFit {
+  checkPairs(xData, yData, confidence);
   positive(ratio, 'ratio');
+  const d = scalePairs(xData, yData);
+  return unscaleFit(demingScaled(d.x, d.y, timesPow2(scaled(ratio), 2 * (d.kx - d.ky)), confidence), d, xData, yData);
+}
+
+/** Deming on data within the band; `ratio` is λ in the units of these data. */
+function demingScaled(x: ArrayLike<number>, y: ArrayLike<number>, ratio: Scaled, confidence: number): LineFit {
+  const n = x.length;
   const m = moments(x, y);
   const slope = demingSlope(m, ratio);
-  if (!Number.isFinite(slope)) {
+  if (Number.isNaN(slope)) {
     throw divError('x and y are uncorrelated (their cross-products sum to zero): the Deming line is undefined');
   }
-  const intercept = m.my - slope * m.mx;
+  const intercept = m.my - slope * m.mx; // a slope beyond the range is reported by unscaleFit
 
   const bs = new Float64Array(n);
   const as = new Float64Array(n);
@@ -328,8 +445,10 @@ function tInterval(method: 'deming' | 'ols', n: number, confidence: number, slop
  * SE(b) = s/√Sxx, SE(a) = s·√(1/n + x̄²/Sxx); intervals ± t₍1−α/2, n−2₎·SE. Centred sums (two-pass),
  * so NIST StRD Norris is reproduced to 12 or more digits.
  */
-export function ordinaryLeastSquares(x: ArrayLike<number>, y: ArrayLike<number>, confidence = 0.95): LineFit {
-  const n = checkPairs(x, y, confidence);
+export function ordinaryLeastSquares(xData: ArrayLike<number>, yData: ArrayLike<number>, confidence = 0.95): LineFit {
+  const n = checkPairs(xData, yData, confidence);
+  const d = scalePairs(xData, yData);
+  const { x, y } = d;
   const m = moments(x, y);
   const slope = m.sxy / m.sxx;
   const intercept = m.my - slope * m.mx;
@@ -342,7 +461,8 @@ export function ordinaryLeastSquares(x: ArrayLike<number>, y: ArrayLike<number>,
   }
   rss = Math.max(0, rss - (rs * rs) / n);
   const s = Math.sqrt(rss / (n - 2));
-  return tInterval('ols', n, confidence, slope, intercept, s / Math.sqrt(m.sxx), s * Math.sqrt(1 / n + (m.mx * m.mx) / m.sxx));
+  const fit = tInterval('ols', n, confidence, slope, intercept, s / Math.sqrt(m.sxx), s * Math.sqrt(1 / n + (m.mx * m.mx) / m.sxx));
+  return unscaleFit(fit, d, xData, yData);
 }
 
 /** Runs the chosen estimator; `ratio` is used by Deming only. */
@@ -366,13 +486,15 @@ export function compareMethods(
 /**
  * Bias of y against x at the level X (a medical decision level, in the unit of the results):
  * units = a + (b − 1)·X, percent = 100·units/X. X ≥ 0 (#NUM!); at X = 0 the percent is null
- * (the caller reports #DIV/0! for it).
+ * (the caller reports #DIV/0! for it). Taken on scaled numbers: a figure beyond ±1.8e308 is
+ * ±Infinity here, for the caller to report.
  */
 export function biasAtLevel(
   fit: Pick<LineFit, 'slope' | 'intercept'>,
   level: number,
 ): { units: number; percent: number | null } {
   nonNegative(level, 'level');
-  const units = fit.intercept + (fit.slope - 1) * level;
-  return { units, percent: level === 0 ? null : (100 * units) / level };
+  const X = scaled(level);
+  const units = plus(scaled(fit.intercept), times(minus(scaled(fit.slope), scaled(1)), X));
+  return { units: toDouble(units), percent: level === 0 ? null : toDouble(over(times(scaled(100), units), X)) };
 }

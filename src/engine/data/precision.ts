@@ -27,8 +27,17 @@
  * are taken about them (Chan, Golub & LeVeque, Am Stat 1983;37:242–7). No one-pass sums of
  * squares: NIST StRD SmLs07–09 (13 constant leading digits) keep as many digits as a double can
  * hold of their deviations.
+ *
+ * Range: results whose largest magnitude lies outside 2^-400 … 2^400 are first multiplied by the
+ * power of two 2^-scale that brings the largest to 0.5 … 1 (exact; scaleData in describe.ts), so
+ * no square or sum leaves the double range. The sums of squares and mean squares are reported in
+ * those scaled units (multiply by 2^(2·scale) for the unit of the results squared; scale = 0 for
+ * ordinary data), so ratios of them (F, degrees of freedom) are right at any scale; the mean and
+ * SDs are scaled back once (an SD beyond 1.8e308 is Infinity here, for the caller to report).
  */
 import { numError, valueError } from '../errors';
+import { Scaled, ldexp, scaled, timesPow2, toDouble } from '../scaled';
+import { meanScaled, scaleData } from './describe';
 
 export interface PrecisionResult {
   /** Grand mean of all results. */
@@ -40,6 +49,7 @@ export interface PrecisionResult {
   readonly groups: number;
   /** N, results. */
   readonly results: number;
+  /** Sums of squares and mean squares, in units of 2^(2·scale) × the unit of the results squared. */
   readonly ssBetween: number;
   readonly ssWithin: number;
   readonly msBetween: number;
@@ -47,12 +57,16 @@ export interface PrecisionResult {
   readonly n0: number;
   /** Σnᵢ², the sum of the squared group sizes. */
   readonly sumSquaredCounts: number;
-  /** s_b² = max(0, (MS_between − MS_within)/n₀), the between-group variance (floored at 0). */
+  /** s_b² = max(0, (MS_between − MS_within)/n₀), the between-group variance (floored at 0), in the units of the mean squares. */
   readonly betweenVariance: number;
   /** ν_r = N − k, degrees of freedom of the repeatability variance. */
   readonly repeatabilityDf: number;
   /** ν_WL, Satterthwaite's degrees of freedom of the within-lab variance (N − k when s_b² = 0). */
   readonly withinLabDf: number;
+  /** The results were multiplied by 2^-scale before the sums of squares (0 for ordinary data). */
+  readonly scale: number;
+  /** The mean and SDs as scaled numbers (never out of range, not rounded into it): CVs are taken on these. */
+  readonly scaled: { readonly mean: Scaled; readonly repeatabilitySd: Scaled; readonly withinLabSd: Scaled };
 }
 
 /**
@@ -73,8 +87,8 @@ export function satterthwaiteDf(v1: number, nu1: number, v2: number, nu2: number
  * One-way ANOVA of `values` by the group key of each (`groups[i]` is the run or day of
  * `values[i]`; keys compare with ===, so the caller normalises labels).
  */
-export function oneWayPrecision(values: ArrayLike<number>, groups: ArrayLike<string | number>): PrecisionResult {
-  const N = values.length;
+export function oneWayPrecision(data: ArrayLike<number>, groups: ArrayLike<string | number>): PrecisionResult {
+  const N = data.length;
   if (groups.length !== N) {
     throw valueError(`values and groups do not pair up (${N} values, ${groups.length} group labels)`);
   }
@@ -96,6 +110,7 @@ export function oneWayPrecision(values: ArrayLike<number>, groups: ArrayLike<str
     throw numError('every group has a single result: at least one group needs 2 or more results for the repeatability SD');
   }
 
+  const { values, k: scale } = scaleData(data);
   const shift = values[0];
   const count = new Float64Array(k);
   const sum = new Float64Array(k);
@@ -144,11 +159,14 @@ export function oneWayPrecision(values: ArrayLike<number>, groups: ArrayLike<str
   const n0 = (N - sumSqCounts / N) / (k - 1);
   const betweenVar = Math.max(0, (msBetween - msWithin) / n0);
   const withinLabDf = betweenVar > 0 ? satterthwaiteDf(msBetween / n0, k - 1, (1 - 1 / n0) * msWithin, N - k) : N - k;
+  const grandMean = meanScaled(data); // correctly rounded sum: keeps its digits when results cancel
+  const repeatabilitySd = timesPow2(scaled(Math.sqrt(msWithin)), scale);
+  const withinLabSd = timesPow2(scaled(Math.sqrt(msWithin + betweenVar)), scale);
   return {
-    mean: shift + m,
-    repeatabilitySd: Math.sqrt(msWithin),
-    betweenSd: Math.sqrt(betweenVar),
-    withinLabSd: Math.sqrt(msWithin + betweenVar),
+    mean: toDouble(grandMean),
+    repeatabilitySd: toDouble(repeatabilitySd),
+    betweenSd: ldexp(Math.sqrt(betweenVar), scale),
+    withinLabSd: toDouble(withinLabSd),
     groups: k,
     results: N,
     ssBetween,
@@ -160,5 +178,7 @@ export function oneWayPrecision(values: ArrayLike<number>, groups: ArrayLike<str
     betweenVariance: betweenVar,
     repeatabilityDf: N - k,
     withinLabDf,
+    scale,
+    scaled: { mean: grandMean, repeatabilitySd, withinLabSd },
   };
 }

@@ -16,7 +16,8 @@
  * keeps the expected number of unreliable final results from a shift at most 1. It does not take
  * part in the choice; it is 0 when the method fails its allowance without a shift.
  */
-import { criticalShift } from '../perf';
+import { criticalShiftScaled } from '../perf';
+import { toDouble } from '../scaled';
 import { openProbability } from '../guards';
 import { detectionProbability, falseRejectionProbability } from './power';
 import { DEFAULT_MAX_RISK, qcRunSize } from './risk';
@@ -51,7 +52,7 @@ export interface QcPlan {
   readonly detection: number;
   readonly falseRejectionPerRun: number;
   readonly targetMet: boolean;
-  /** The critical shift the detection refers to, SD (may be negative). */
+  /** The critical shift the detection refers to, SD (may be negative; ±1.8e308 stands for a shift beyond the double range). */
   readonly criticalShift: number;
   /** QC.RUNSIZE of the chosen rule and n (maxrisk 1): patient results between QC events. */
   readonly runSize: number;
@@ -74,7 +75,9 @@ export function planQc(
   target = DEFAULT_TARGET,
   limit = DEFAULT_FALSE_REJECTION_LIMIT,
 ): QcPlan {
-  const shift = criticalShift(allowable, bias, cv, PLAN_Z);
+  // A critical shift beyond ±1.8e308 (a CV tiny beside the allowance) is held at ±1.8e308: every
+  // candidate's detection there is 1 (or, below 0, the method fails its allowance) to double precision.
+  const shift = Math.min(Number.MAX_VALUE, Math.max(-Number.MAX_VALUE, toDouble(criticalShiftScaled(allowable, bias, cv, PLAN_Z))));
   openProbability(target, 'target');
   openProbability(limit, 'limit');
   const at = Math.max(shift, 0);

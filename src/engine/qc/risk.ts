@@ -58,9 +58,8 @@
  * shares the grid): a hit is the same number.
  */
 import { numError } from '../errors';
-import { show, wholeNumber, positive, nonNegative } from '../guards';
+import { divisor, finite, show, wholeNumber, positive, nonNegative } from '../guards';
 import { normalCdf } from '../normal';
-import { sigmaMetric } from '../perf';
 import { BoundedCache } from './cache';
 import { checkControls, gaussLegendre, survivalSequence } from './power';
 import { ControlRule, parseRule } from './rules';
@@ -101,10 +100,20 @@ interface Method {
 
 /** Guards allowable, bias and cv (as PERF.SIGMA does) and standardises them. */
 function methodOf(allowable: number, bias: number, cv: number): Method {
-  sigmaMetric(allowable, bias, cv);
+  nonNegative(allowable, 'allowable');
+  finite(bias, 'bias');
+  divisor(cv, 'cv');
   const b = Math.abs(bias);
+  // allowable − |b| cannot overflow (both ≥ 0); a quotient beyond the double range is Infinity
+  // here, a method so far inside its allowance that it carries no risk (see FAR_INSIDE).
   return { alpha: allowable / cv, beta: b / cv, a2: (allowable - b) / cv, key: `${allowable}|${b}|${cv}` };
 }
+
+/**
+ * Sigma beyond which E(Nuf) is 0 to double precision at every shift searched: ΔP_E(Δ) ≤
+ * Φ(Δ − σ) + Φ(−σ − Δ) ≤ 2Φ(10 − σ), below the smallest subnormal (4.9e-324) once σ − 10 > 39.
+ */
+const FAR_INSIDE = 50;
 
 /** runsize: whole, 1 … 1,000,000 (the largest run size QC.RUNSIZE reports). */
 function checkRunSize(runsize: number): void {
@@ -356,6 +365,7 @@ function locatePeak(f: (x: number) => number): Peak {
 const PEAKS = new BoundedCache<string, Peak>(20000);
 
 function peakOf(m: Method, rule: ControlRule, n: number): Peak {
+  if (m.a2 > FAR_INSIDE) return { value: 0, shift: MAX_SHIFT };
   const key = `${m.key}|${rule.key}|${n}`;
   const hit = PEAKS.get(key);
   if (hit) return hit;

@@ -52,7 +52,7 @@ export const BV_SETPOINT = elementwise({
   doc: {
     summary: 'specimens needed to estimate a set point within ± closeness %',
     description:
-      'Specimens needed to estimate a person\'s set point within ± closeness %: ⌈(z × √(CV² + CVI²) / closeness)²⌉, at least 1; z = 1.96 by default.',
+      'Specimens needed to estimate a person\'s set point within ± closeness %: ⌈(z × √(CV² + CVI²) / closeness)²⌉, at least 1; a square within 1e-12 of a whole number counts as that number (binary rounding does not add a specimen). z = 1.96 by default.',
     sources: ['Harris EK. Clin Chem 1974;20:1535–42'],
     returns: 'Number of specimens.',
     example: { args: [2.5, 5.7, 5] },

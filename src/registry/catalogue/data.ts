@@ -8,12 +8,12 @@
  * (trimmed, any case, so "Run A" and "run a" are one group, and 1 and "1" are one group); a pair
  * with a blank label is skipped.
  */
-import { cvPercent, meanPercentBias, mean, rmsPercentBias, sampleCv } from '../../engine/data/describe';
+import { cvPercentScaled, meanPercentBias, mean, rmsPercentBias, sampleCv } from '../../engine/data/describe';
 import { oneWayPrecision } from '../../engine/data/precision';
 import { DEFAULT_COMPARE_METHOD, LineFit, biasAtLevel, compareMethods, readCompareMethod } from '../../engine/data/compare';
 import { biasUncertainty, combinedUncertainty } from '../../engine/mu';
 import { divError, naError, numError, valueError } from '../../engine/errors';
-import { nonNegative, positive } from '../../engine/guards';
+import { fits, nonNegative, positive, show } from '../../engine/guards';
 import { cellCount, cellsOf, numbersOf, singleCell, toNumber } from '../coerce';
 import { aggregate, elementwise, figure, labelled, num, optNum, optNumNone, optWord, range } from '../define';
 import type { Figure } from '../define';
@@ -34,6 +34,13 @@ function checkSameSize(a: Grid | undefined, b: Grid | undefined, nameA: string, 
 }
 
 const isNumber = (v: Scalar): v is number => typeof v === 'number' && Number.isFinite(v);
+
+/** The largest magnitude among numbers (for messages). */
+function largest(xs: readonly number[]): number {
+  let top = 0;
+  for (const x of xs) top = Math.max(top, Math.abs(x));
+  return top;
+}
 
 /** Pairs two ranges cell by cell, keeping the pairs where both cells are numbers. */
 export function pairedNumbers(a: Grid | undefined, b: Grid | undefined, nameA: string, nameB: string): [number[], number[]] {
@@ -136,13 +143,20 @@ export const DATA_PRECISION = labelled({
   fn: (gv: Grid, gg: Grid) => {
     const { values, labels } = groupedNumbers(gv, gg);
     const p = oneWayPrecision(values, labels);
+    // SDs beyond the largest double are errors in their own cells; the CVs, ratios, are taken on
+    // the scaled figures, so they are right whatever the size of the results.
+    const sd = (v: number, what: string): Figure =>
+      figure(() => {
+        if (v === Infinity) throw numError(`the ${what} exceeds the largest number Excel can hold (about 1.8e308): the values reach ${show(largest(values))}`);
+        return v;
+      });
     return {
       Mean: p.mean,
-      'Repeatability SD': p.repeatabilitySd,
-      'Between-group SD': p.betweenSd,
-      'Within-lab SD': p.withinLabSd,
-      'Repeatability CV %': figure(() => cvPercent(p.repeatabilitySd, p.mean)),
-      'Within-lab CV %': figure(() => cvPercent(p.withinLabSd, p.mean)),
+      'Repeatability SD': sd(p.repeatabilitySd, 'repeatability SD'),
+      'Between-group SD': sd(p.betweenSd, 'between-group SD'),
+      'Within-lab SD': sd(p.withinLabSd, 'within-lab SD'),
+      'Repeatability CV %': figure(() => cvPercentScaled(p.scaled.repeatabilitySd, p.scaled.mean)),
+      'Within-lab CV %': figure(() => cvPercentScaled(p.scaled.withinLabSd, p.scaled.mean)),
       Groups: p.groups,
       Results: p.results,
       'Within-lab df': p.withinLabDf,
@@ -177,10 +191,10 @@ export const DATA_COMPARE = labelled({
     let biasPercent: Figure = '';
     if (level !== undefined) {
       const bias = biasAtLevel(fit, level);
-      biasUnits = figure(() => bias.units);
+      biasUnits = figure(() => fits(bias.units, { level }, 'the bias at level'));
       biasPercent = figure(() => {
         if (bias.percent === null) throw divError('level is zero: the bias in percent divides by the level');
-        return bias.percent;
+        return fits(bias.percent, { level }, 'the bias at level in percent');
       });
     }
     return {

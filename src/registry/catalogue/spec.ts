@@ -5,11 +5,13 @@ import {
   allowableTotalError,
   allowableUncertainty,
   fixedLimitPercent,
-  tierTable,
 } from '../../engine/spec';
+import { TIERS } from '../../engine/tiers';
+import { LeewayError } from '../../engine/errors';
+import { errorCell } from '../coerce';
 import { zFromCoverage } from '../../engine/coverage';
 import { nonNegative } from '../../engine/guards';
-import { aggregate, elementwise, num, optNum } from '../define';
+import { aggregate, elementwise, figure, num, optNum } from '../define';
 import { CVG, CVI, TIER } from '../params';
 import type { Output } from '../types';
 
@@ -111,7 +113,14 @@ export const SPEC_TIERS = aggregate({
   ],
   fn: (cvi: number, cvg: number, z: number): Output => {
     const rows: Output = [[...TIERS_HEADER]];
-    for (const r of tierTable(cvi, cvg, z)) rows.push([r.tier, r.cv, r.bias, r.total]);
+    for (const tier of TIERS) {
+      // CV and bias check the inputs (a bad one fails the whole table) and are always finite; a
+      // total beyond the largest number Excel can hold is an error in its own cell.
+      const cv = allowableImprecision(cvi, tier);
+      const bias = allowableBias(cvi, cvg, tier);
+      const total = figure(() => allowableTotalError(cvi, cvg, tier, z));
+      rows.push([tier, cv, bias, total instanceof LeewayError ? errorCell(total) : total]);
+    }
     return rows;
   },
 });
