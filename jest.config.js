@@ -5,5 +5,6 @@ module.exports = {
   testMatch: ['<rootDir>/test/**/*.test.ts'],
   moduleFileExtensions: ['ts', 'js', 'json'],
   testTimeout: 60000,
+  setupFilesAfterEnv: ['<rootDir>/test/support/matchers.ts'],
   reporters: ['default', '<rootDir>/test/support/summary-reporter.js'],
 };

@@ -1,6 +1,6 @@
 import Decimal from 'decimal.js';
 import { oneWayPrecision } from '../../../src/engine/data/precision';
-import { lre, mulberry32, relClose, uniform } from '../../support/prng';
+import { lre, mulberry32, uniform } from '../../support/prng';
 import { anova, lreRow } from './nist';
 
 // NIST StRD one-way ANOVA (test/fixtures/nist-strd). Repeatability SD = certified residual SD;
@@ -209,7 +209,7 @@ describe('DATA.PRECISION degrees of freedom (repeatability N − k, within-lab b
     const expected = (between + within) ** 2 / (between ** 2 / d.dfBetween + within ** 2 / d.dfWithin);
     expect(d.msBetween).toBeGreaterThan(d.msWithin); // every file has a positive between-group component
     const tol = required >= 9 ? 1e-8 : 1e-3;
-    expect(relClose(p.withinLabDf, expected, tol)).toBe(true);
+    expect(p.withinLabDf).toBeRelClose(expected, tol);
     expect(p.repeatabilityDf).toBe(d.dfWithin);
     expect(p.sumSquaredCounts).toBe(k * n0 * n0);
     // ν_WL lies between the smaller df and their sum (Satterthwaite, positive terms).
@@ -224,10 +224,10 @@ describe('DATA.PRECISION degrees of freedom (repeatability N − k, within-lab b
   //      = 250000 / (115200 + 400/3) = 750000/346000 = 375/173.
   test('hand-checked unbalanced design: ν_WL = 375/173, ν_r = 3', () => {
     const p = oneWayPrecision([1, 2, 3, 5, 7, 10], ['a', 'a', 'a', 'b', 'b', 'c']);
-    expect(relClose(p.withinLabDf, 375 / 173, 1e-14)).toBe(true);
+    expect(p.withinLabDf).toBeRelClose(375 / 173, 1e-14);
     expect(p.repeatabilityDf).toBe(3);
     expect(p.sumSquaredCounts).toBe(14);
-    expect(relClose(p.betweenVariance, 152 / 11, 1e-14)).toBe(true);
+    expect(p.betweenVariance).toBeRelClose(152 / 11, 1e-14);
   });
 
   // Seed 3103: s_WL² = MS_B/n₀ + (1 − 1/n₀)·MS_W equals s_r² + s_b² (the within-lab SD) whenever
@@ -256,7 +256,7 @@ describe('DATA.PRECISION degrees of freedom (repeatability N − k, within-lab b
       if (p.betweenVariance > 0) {
         positive++;
         const sum = p.msBetween / p.n0 + (1 - 1 / p.n0) * p.msWithin;
-        expect(relClose(p.withinLabSd ** 2, sum, 1e-12)).toBe(true);
+        expect(p.withinLabSd ** 2).toBeRelClose(sum, 1e-12);
         expect(p.withinLabDf).toBeGreaterThanOrEqual(Math.min(k - 1, N - k) * (1 - 1e-12));
         expect(p.withinLabDf).toBeLessThanOrEqual((N - 1) * (1 + 1e-12));
       } else {

@@ -9,7 +9,7 @@ import { rowKey } from '../../../src/engine/table';
 import type { VariationRow, VariationTable } from '../../../src/engine/table';
 import { evaluate } from '../../../src/registry';
 import { VERSION } from '../../../src/engine/version';
-import { mulberry32, relClose } from '../../support/prng';
+import { mulberry32 } from '../../support/prng';
 
 const row = (analyte: string, cvi: number, cvg: number | null, extra: Partial<VariationRow> = {}): VariationRow => ({
   analyte,
@@ -61,7 +61,7 @@ describe('planFill on a new sheet, live formulas', () => {
         // Cells reach the worksheet function as 1×1 ranges; a blank cell is [[null]].
         const want = evaluate(fn, args.map((a) => [[a]]) as never)[0][0];
         const got = c.content.kind === 'formula' ? c.content.result : undefined;
-        if (typeof want === 'number') expect(relClose(got as number, want, 1e-15)).toBe(true);
+        if (typeof want === 'number') expect(got as number).toBeRelClose(want, 1e-15);
         else expect(got).toEqual(want);
       };
       expect1('spec_cv', `=LEEWAY.SPEC.CV(${L('cvi')}${r},${tierArg})`, 'SPEC.CV', [src.cvi, 'desirable']);

@@ -3,7 +3,7 @@ import * as path from 'path';
 import tQuantileRef from '@stdlib/stats-base-dists-t-quantile';
 import { agreement, readAgreementScale } from '../../../src/engine/verify/agreement';
 import { normalDeviates } from '../../../src/engine/demo/random';
-import { mulberry32, relClose, uniform } from '../../support/prng';
+import { mulberry32, uniform } from '../../support/prng';
 
 /** Bland & Altman 1986, Table 1 (test/fixtures/method-comparison/bland_altman_1986_pefr.csv). */
 function peakFlow(): { large: number[]; mini: number[] } {
@@ -29,7 +29,7 @@ describe('DATA.AGREEMENT on the Bland & Altman (Lancet 1986) peak-flow data', ()
     expect(Math.abs(a.sdDifferences - 38.77)).toBeLessThanOrEqual(0.005);
     // Exactly: Σd = −36 over 17 pairs (hand sum of the table), so d̄ = −36/17; relative 2e-15
     // (the two-pass mean is exact to about one rounding of the first difference, 18).
-    expect(relClose(a.meanDifference, -36 / 17, 2e-15)).toBe(true);
+    expect(a.meanDifference).toBeRelClose(-36 / 17, 2e-15);
   });
 
   test('limits: the published ±2 SD limits −79.7 and 75.5 from the rounded mean and SD; ours are ±1.96 SD', () => {
@@ -39,8 +39,8 @@ describe('DATA.AGREEMENT on the Bland & Altman (Lancet 1986) peak-flow data', ()
     expect(round1(d - 2 * s)).toBe(-79.7);
     expect(round1(d + 2 * s)).toBe(75.5);
     // Leeway's limits use 1.96 SD (the catalogue's definition).
-    expect(relClose(a.lowerLimit, a.meanDifference - 1.96 * a.sdDifferences, 1e-14)).toBe(true);
-    expect(relClose(a.upperLimit, a.meanDifference + 1.96 * a.sdDifferences, 1e-14)).toBe(true);
+    expect(a.lowerLimit).toBeRelClose(a.meanDifference - 1.96 * a.sdDifferences, 1e-14);
+    expect(a.upperLimit).toBeRelClose(a.meanDifference + 1.96 * a.sdDifferences, 1e-14);
   });
 
   // Bland & Altman 1986 (from memory): 95 % CI of the mean difference −2.1 ± 2.12·9.4, that is
@@ -58,16 +58,16 @@ describe('DATA.AGREEMENT on the Bland & Altman (Lancet 1986) peak-flow data', ()
     const s = a.sdDifferences;
     const hm = (t * s) / Math.sqrt(n);
     const hl = t * s * Math.sqrt(1 / n + (1.96 * 1.96) / (2 * (n - 1)));
-    expect(relClose(a.meanDifferenceLow, a.meanDifference - hm, 1e-13)).toBe(true);
-    expect(relClose(a.meanDifferenceHigh, a.meanDifference + hm, 1e-13)).toBe(true);
-    expect(relClose(a.lowerLimitLow, a.lowerLimit - hl, 1e-13)).toBe(true);
-    expect(relClose(a.lowerLimitHigh, a.lowerLimit + hl, 1e-13)).toBe(true);
-    expect(relClose(a.upperLimitLow, a.upperLimit - hl, 1e-13)).toBe(true);
-    expect(relClose(a.upperLimitHigh, a.upperLimit + hl, 1e-13)).toBe(true);
+    expect(a.meanDifferenceLow).toBeRelClose(a.meanDifference - hm, 1e-13);
+    expect(a.meanDifferenceHigh).toBeRelClose(a.meanDifference + hm, 1e-13);
+    expect(a.lowerLimitLow).toBeRelClose(a.lowerLimit - hl, 1e-13);
+    expect(a.lowerLimitHigh).toBeRelClose(a.lowerLimit + hl, 1e-13);
+    expect(a.upperLimitLow).toBeRelClose(a.upperLimit - hl, 1e-13);
+    expect(a.upperLimitHigh).toBeRelClose(a.upperLimit + hl, 1e-13);
     // A 90 % interval is narrower, the limits themselves do not move.
     const b = agreement(mini, large, 'absolute', 0.9);
     expect(b.lowerLimit).toBe(a.lowerLimit);
-    expect(relClose(b.meanDifferenceHigh - b.meanDifference, (tQuantileRef(0.95, n - 1) * s) / Math.sqrt(n), 1e-13)).toBe(true);
+    expect(b.meanDifferenceHigh - b.meanDifference).toBeRelClose((tQuantileRef(0.95, n - 1) * s) / Math.sqrt(n), 1e-13);
   });
 });
 
@@ -80,9 +80,9 @@ describe('DATA.AGREEMENT, percent differences', () => {
     const m = (d[0] + d[1] + d[2]) / 3;
     const s = Math.sqrt(d.reduce((acc, v) => acc + (v - m) ** 2, 0) / 2);
     const r = agreement(x, y, 'percent');
-    expect(relClose(r.meanDifference, m, 1e-14)).toBe(true);
-    expect(relClose(r.sdDifferences, s, 1e-14)).toBe(true);
-    expect(relClose(r.upperLimit, m + 1.96 * s, 1e-14)).toBe(true);
+    expect(r.meanDifference).toBeRelClose(m, 1e-14);
+    expect(r.sdDifferences).toBeRelClose(s, 1e-14);
+    expect(r.upperLimit).toBeRelClose(m + 1.96 * s, 1e-14);
   });
 
   test('a pair with x + y = 0 is #DIV/0! naming its position', () => {
@@ -114,12 +114,12 @@ describe('DATA.AGREEMENT, numerical care', () => {
         x.map((v) => v + 1e9),
         y.map((v) => v + 1e9),
       );
-      expect(relClose(shifted.meanDifference, base.meanDifference, 1e-15) || shifted.meanDifference === base.meanDifference).toBe(true);
-      expect(relClose(shifted.sdDifferences, base.sdDifferences, 1e-14)).toBe(true);
+      expect(shifted.meanDifference).toBeRelClose(base.meanDifference, 1e-15);
+      expect(shifted.sdDifferences).toBeRelClose(base.sdDifferences, 1e-14);
       const swapped = agreement(y, x);
       expect(swapped.meanDifference === -base.meanDifference).toBe(true); // exact (0 and −0 alike)
-      expect(relClose(swapped.lowerLimit, -base.upperLimit, 1e-14)).toBe(true);
-      expect(relClose(swapped.upperLimitHigh, -base.lowerLimitLow, 1e-14)).toBe(true);
+      expect(swapped.lowerLimit).toBeRelClose(-base.upperLimit, 1e-14);
+      expect(swapped.upperLimitHigh).toBeRelClose(-base.lowerLimitLow, 1e-14);
     }
   });
 
@@ -134,7 +134,7 @@ describe('DATA.AGREEMENT, numerical care', () => {
       y.map((v) => v * k),
     );
     for (const key of ['meanDifference', 'sdDifferences', 'lowerLimitLow', 'upperLimitHigh'] as const) {
-      expect(relClose(big[key], base[key] * k, 1e-13)).toBe(true);
+      expect(big[key]).toBeRelClose(base[key] * k, 1e-13);
     }
     const pBase = agreement(x, y, 'percent');
     const pBig = agreement(
@@ -142,8 +142,8 @@ describe('DATA.AGREEMENT, numerical care', () => {
       y.map((v) => v * k),
       'percent',
     );
-    expect(relClose(pBig.upperLimit, pBase.upperLimit, 1e-14)).toBe(true);
-    expect(relClose(pBig.sdDifferences, pBase.sdDifferences, 1e-14)).toBe(true);
+    expect(pBig.upperLimit).toBeRelClose(pBase.upperLimit, 1e-14);
+    expect(pBig.sdDifferences).toBeRelClose(pBase.sdDifferences, 1e-14);
   });
 
   test('if a figure would leave double range, throws #NUM!', () => {

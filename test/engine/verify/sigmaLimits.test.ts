@@ -1,7 +1,7 @@
 import normalQuantileRef from '@stdlib/stats-base-dists-normal-quantile';
 import { sigmaLimits } from '../../../src/engine/verify/sigmaLimits';
 import { sigmaMetric } from '../../../src/engine/perf';
-import { mulberry32, relClose, uniform } from '../../support/prng';
+import { mulberry32, uniform } from '../../support/prng';
 
 // z from @stdlib/stats-base-dists-normal-quantile (an independent implementation).
 const Z95 = normalQuantileRef(0.975, 0, 1);
@@ -13,8 +13,8 @@ describe('PERF.SIGMALIMITS', () => {
     const r = sigmaLimits(10, 1, 2, 20, 0.5);
     const u = Math.sqrt(2.275) / 2;
     expect(r.sigma).toBe(4.5);
-    expect(relClose(r.low, 4.5 - Z95 * u, 1e-14)).toBe(true);
-    expect(relClose(r.high, 4.5 + Z95 * u, 1e-14)).toBe(true);
+    expect(r.low).toBeRelClose(4.5 - Z95 * u, 1e-14);
+    expect(r.high).toBeRelClose(4.5 + Z95 * u, 1e-14);
   });
 
   test('σ is PERF.SIGMA; the bias counts by its size; a negative σ is allowed', () => {
@@ -61,9 +61,9 @@ describe('PERF.SIGMALIMITS', () => {
     const base = sigmaLimits(10, 1, 2, 20, 0.5);
     const r = sigmaLimits(10 * k, 1 * k, 2 * k, 20, 0.5 * k);
     const tol = k < 1e-310 ? 1e-3 : 1e-14; // 1e-320 is subnormal: only a few digits survive in the inputs
-    expect(relClose(r.sigma, base.sigma, tol)).toBe(true);
-    expect(relClose(r.low, base.low, tol)).toBe(true);
-    expect(relClose(r.high, base.high, tol)).toBe(true);
+    expect(r.sigma).toBeRelClose(base.sigma, tol);
+    expect(r.low).toBeRelClose(base.low, tol);
+    expect(r.high).toBeRelClose(base.high, tol);
   });
 });
 

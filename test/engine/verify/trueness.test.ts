@@ -4,7 +4,7 @@ import { verifyTrueness } from '../../../src/engine/verify/trueness';
 import { oneWayPrecision } from '../../../src/engine/data/precision';
 import { LeewayError } from '../../../src/engine/errors';
 import { normalDeviates } from '../../../src/engine/demo/random';
-import { mulberry32, relClose, uniform } from '../../support/prng';
+import { mulberry32, uniform } from '../../support/prng';
 import { anova } from '../data/nist';
 
 function design(k: number, n: number, seed: number, between = 1, within = 2): { values: number[]; groups: number[] } {
@@ -37,11 +37,11 @@ describe('VERIFY.TRUENESS', () => {
     expect(p.msBetween).toBeGreaterThan(p.msWithin);
     const r = verifyTrueness(values, groups, 100, 0);
     const se = Math.sqrt(p.msBetween / 25);
-    expect(relClose(r.standardError, se, 1e-13)).toBe(true);
-    expect(relClose(num(r.df), 4, 1e-12)).toBe(true);
+    expect(r.standardError).toBeRelClose(se, 1e-13);
+    expect(num(r.df)).toBeRelClose(4, 1e-12);
     const t = tQuantileRef(0.975, 4);
-    expect(relClose(r.verificationHigh - 100, t * se, 1e-12)).toBe(true);
-    expect(relClose(100 - r.verificationLow, t * se, 1e-12)).toBe(true);
+    expect(r.verificationHigh - 100).toBeRelClose(t * se, 1e-12);
+    expect(100 - r.verificationLow).toBeRelClose(t * se, 1e-12);
   });
 
   // The same design on NIST StRD SiRstv (5 × 5, certified MS_B 1.27865654e-2 > MS_W
@@ -51,11 +51,11 @@ describe('VERIFY.TRUENESS', () => {
     const se = Math.sqrt(d.msBetween / 25);
     const ua = 0.02;
     const r = verifyTrueness(d.values, d.groups, 1.34, ua);
-    expect(relClose(r.standardError, se, 1e-9)).toBe(true);
+    expect(r.standardError).toBeRelClose(se, 1e-9);
     const uc2 = se * se + ua * ua;
-    expect(relClose(num(r.df), (4 * uc2 * uc2) / (se * se * se * se), 1e-9)).toBe(true);
+    expect(num(r.df)).toBeRelClose((4 * uc2 * uc2) / (se * se * se * se), 1e-9);
     const half = tQuantileRef(0.975, num(r.df)) * Math.sqrt(uc2);
-    expect(relClose(r.verificationHigh, 1.34 + half, 1e-9)).toBe(true);
+    expect(r.verificationHigh).toBeRelClose(1.34 + half, 1e-9);
   });
 
   // Hand-checked unbalanced design (common practice, no source): groups {1, 2, 3}, {5, 7}, {10}:
@@ -67,15 +67,15 @@ describe('VERIFY.TRUENESS', () => {
     const A = (7 / 33) * (80 / 3);
     const C = (-1 / 22) * (4 / 3);
     const se2 = A + C;
-    expect(relClose(se2, ((152 / 11) * 14) / 36 + 4 / 3 / 6, 1e-14)).toBe(true); // both forms agree
-    expect(relClose(r.standardError, Math.sqrt(se2), 1e-14)).toBe(true);
+    expect(se2).toBeRelClose(((152 / 11) * 14) / 36 + 4 / 3 / 6, 1e-14); // both forms agree
+    expect(r.standardError).toBeRelClose(Math.sqrt(se2), 1e-14);
     const df = (se2 * se2) / ((A * A) / 2 + (C * C) / 3);
-    expect(relClose(num(r.df), df, 1e-13)).toBe(true);
-    expect(relClose(r.mean, 14 / 3, 1e-15)).toBe(true);
-    expect(relClose(r.bias, 14 / 3 - 5, 1e-14)).toBe(true);
-    expect(relClose(num(r.biasPercent), (100 * (14 / 3 - 5)) / 5, 1e-14)).toBe(true);
+    expect(num(r.df)).toBeRelClose(df, 1e-13);
+    expect(r.mean).toBeRelClose(14 / 3, 1e-15);
+    expect(r.bias).toBeRelClose(14 / 3 - 5, 1e-14);
+    expect(num(r.biasPercent)).toBeRelClose((100 * (14 / 3 - 5)) / 5, 1e-14);
     const half = tQuantileRef(0.975, df) * Math.sqrt(se2);
-    expect(relClose(r.verificationLow, 5 - half, 1e-12)).toBe(true);
+    expect(r.verificationLow).toBeRelClose(5 - half, 1e-12);
     expect(r.verified).toBe('yes');
   });
 
@@ -86,7 +86,7 @@ describe('VERIFY.TRUENESS', () => {
     const p = oneWayPrecision(values, groups);
     expect(p.betweenVariance).toBe(0);
     const r = verifyTrueness(values, groups, 10.5, 0);
-    expect(relClose(r.standardError, Math.sqrt(p.msWithin / 9), 1e-15)).toBe(true);
+    expect(r.standardError).toBeRelClose(Math.sqrt(p.msWithin / 9), 1e-15);
     expect(num(r.df)).toBe(6);
   });
 
@@ -95,7 +95,7 @@ describe('VERIFY.TRUENESS', () => {
     const r1 = verifyTrueness(values, groups, 100, 0.5, 1);
     const r3 = verifyTrueness(values, groups, 100, 0.5, 3);
     const uc = Math.hypot(r1.standardError, 0.5);
-    expect(relClose(r3.verificationHigh - 100, tQuantileRef(1 - 0.05 / 6, num(r3.df)) * uc, 1e-12)).toBe(true);
+    expect(r3.verificationHigh - 100).toBeRelClose(tQuantileRef(1 - 0.05 / 6, num(r3.df)) * uc, 1e-12);
     expect(r3.verificationHigh).toBeGreaterThan(r1.verificationHigh);
   });
 
@@ -107,7 +107,7 @@ describe('VERIFY.TRUENESS', () => {
     const half = Math.tan(0.475 * Math.PI);
     const r = verifyTrueness(values, groups, 11, 0);
     expect(r.standardError).toBe(1);
-    expect(relClose(r.verificationHigh - 11, half, 1e-13)).toBe(true);
+    expect(r.verificationHigh - 11).toBeRelClose(half, 1e-13);
     expect(verifyTrueness(values, groups, 11 - half * (1 - 1e-9), 0).verified).toBe('yes');
     expect(verifyTrueness(values, groups, 11 - half * (1 + 1e-9), 0).verified).toBe('no');
     expect(verifyTrueness(values, groups, 11 + half * (1 + 1e-9), 0).verified).toBe('no');
@@ -130,7 +130,7 @@ describe('VERIFY.TRUENESS', () => {
     const groups = [1, 1, 2, 2, 3, 3];
     const r = verifyTrueness(values, groups, 5.1, 0.1);
     expect(r.standardError).toBe(0);
-    expect(relClose(r.verificationHigh - 5.1, normalQuantileRef(0.975, 0, 1) * 0.1, 1e-13)).toBe(true);
+    expect(r.verificationHigh - 5.1).toBeRelClose(normalQuantileRef(0.975, 0, 1) * 0.1, 1e-13);
     expect(r.verified).toBe('yes');
     expect((r.df as LeewayError).code).toBe('#NUM!');
     const point = verifyTrueness(values, groups, 5, 0);
@@ -145,7 +145,7 @@ describe('VERIFY.TRUENESS', () => {
     const groups = [1, 1, 2, 2];
     const r = verifyTrueness(values, groups, 1, 1e70);
     expect((r.df as LeewayError).code).toBe('#NUM!');
-    expect(relClose(r.verificationHigh - 1, normalQuantileRef(0.975, 0, 1) * 1e70, 1e-13)).toBe(true);
+    expect(r.verificationHigh - 1).toBeRelClose(normalQuantileRef(0.975, 0, 1) * 1e70, 1e-13);
   });
 
   // Results, assigned value and u_assigned in a huge or tiny unit (×2^1000, ×2^-1000): every
@@ -159,11 +159,11 @@ describe('VERIFY.TRUENESS', () => {
       99 * k,
       0.7 * k,
     );
-    expect(relClose(s.mean, base.mean * k, 1e-14)).toBe(true);
-    expect(relClose(s.standardError, base.standardError * k, 1e-14)).toBe(true);
-    expect(relClose(s.verificationLow, base.verificationLow * k, 1e-14)).toBe(true);
-    expect(relClose(num(s.df), num(base.df), 1e-14)).toBe(true);
-    expect(relClose(num(s.biasPercent), num(base.biasPercent), 1e-13)).toBe(true);
+    expect(s.mean).toBeRelClose(base.mean * k, 1e-14);
+    expect(s.standardError).toBeRelClose(base.standardError * k, 1e-14);
+    expect(s.verificationLow).toBeRelClose(base.verificationLow * k, 1e-14);
+    expect(num(s.df)).toBeRelClose(num(base.df), 1e-14);
+    expect(num(s.biasPercent)).toBeRelClose(num(base.biasPercent), 1e-13);
     expect(s.verified).toBe(base.verified);
   });
 });
