@@ -4,7 +4,7 @@
  * it into the Excel error; the CLI prints it as `#CODE! message`.
  */
 
-/** Excel error codes Leeway uses (SPEC.md section 2). */
+/** Excel error codes Leeway uses (docs/reference/conventions.md). */
 export type ErrorCode = '#VALUE!' | '#NUM!' | '#DIV/0!' | '#N/A';
 
 export const ERROR_CODES: readonly ErrorCode[] = ['#VALUE!', '#NUM!', '#DIV/0!', '#N/A'];

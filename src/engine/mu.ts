@@ -1,6 +1,6 @@
 /**
  * Measurement uncertainty from the laboratory's own IQC and EQA/CRM data (MU family), the
- * approach of Magnusson B et al., Nordtest Report TR 537, ed. 4 (2017) (cited from SPEC.md; the
+ * approach of Magnusson B et al., Nordtest Report TR 537, ed. 4 (2017) (cited from memory; the
  * handbook itself was not at hand, its worked examples are checked second-hand in the tests):
  * the within-laboratory reproducibility u(Rw) (from long-term IQC) and the uncertainty of the
  * method and laboratory bias u(bias) (from EQA rounds or a reference material) are combined as

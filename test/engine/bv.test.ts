@@ -19,7 +19,7 @@ describe('BV.RCV (Harris & Yasaka 1983)', () => {
 });
 
 describe('BV.RCVLOG (Fokkema et al. 2006)', () => {
-  // Formula of SPEC.md §3, evaluated by hand in double precision: CV 3, CVI 4 (total 5 %):
+  // The function's formula (docs/reference/functions), evaluated by hand in double precision: CV 3, CVI 4 (total 5 %):
   // σ = √ln(1.0025) = 0.0499688…, up = e^{1.96·√2·σ} − 1 = 14.8…%, down = e^{−…} − 1 = −12.9…%.
   test('up and down are asymmetric and multiply to a unit ratio', () => {
     const up = logNormalRcv(3, 4, 1.96, 'up');

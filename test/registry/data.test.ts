@@ -73,7 +73,7 @@ describe('DATA.PRECISION', () => {
 
   // Common practice, no source: runs {1, 2}, {3, 4}, {5, 6}: MS_within 0.5, MS_between 8,
   // n₀ = 2, between variance 3.75.
-  test('spills the labels of SPEC.md, in order, then the values', () => {
+  test('spills the documented labels, in order, then the values', () => {
     const out = evaluate('DATA.PRECISION', [col(1, 2, 3, 4, 5, 6), col('A', 'A', 'B', 'B', 'C', 'C')]);
     expect(out.length).toBe(2);
     expect(out[0]).toEqual(LABELS);
@@ -130,7 +130,7 @@ describe('DATA.COMPARE', () => {
 
   // Sen PK, JASA 1968 (reference README): Passing–Bablok slope 4, intercept 6. Its 95 % ranks
   // are the same as the published 93 % ones here (M₁ = 4 either way): 26/7 and 35/8.
-  test('Passing–Bablok by default: labels of SPEC.md in order; the bias cells are "" without a level', () => {
+  test('Passing–Bablok by default: documented labels in order; the bias cells are "" without a level', () => {
     const out = evaluate('DATA.COMPARE', [SEN_X, SEN_Y]);
     expect(out[0]).toEqual(LABELS);
     const v = out[1];

@@ -31,7 +31,7 @@ describe('the registry', () => {
   });
 });
 
-describe('SPEC.md section 2 conventions through evaluate()', () => {
+describe('the documented conventions through evaluate()', () => {
   test('a single value gives a 1×1 result; omitted optionals take their defaults', () => {
     expect(evaluate('SPEC.TOTAL', [5.7, 6.9])).toEqual(evaluate('SPEC.TOTAL', [5.7, 6.9, 'desirable', 1.65]));
     expect(evaluate('SPEC.CV', [[[5.7]], null])).toEqual([[2.85]]);

@@ -17,7 +17,7 @@ const err = (v: OutCell): ErrorCell => {
 };
 
 describe('QC.DETECT and QC.FALSEREJECT in the registry', () => {
-  // Closed form of SPEC.md section 4 with the stdlib Φ: 1-3s, n 2, shift 2: 1 − [Φ(1) − Φ(−5)]².
+  // Closed form of the Westgard & Groth 1979 model with the stdlib Φ: 1-3s, n 2, shift 2: 1 − [Φ(1) − Φ(−5)]².
   test('a single rule gives the closed form; runs default to 1', () => {
     const expected = 1 - (Phi(1) - Phi(-5)) ** 2;
     expect(Math.abs((one('QC.DETECT', ['1-3s', 2, 2]) as number) - expected)).toBeLessThan(1e-12);

@@ -2,7 +2,7 @@
  * Robustness: every worksheet function on seeded generated inputs — numbers of every magnitude
  * and sign, NaN, ±Infinity, blanks, logicals, text, dates as serial numbers, ranges of mismatched
  * shapes, omitted optionals. Each result must be a rectangular grid of finite numbers, text,
- * logicals or one of SPEC.md's Excel errors with a message. Nothing throws, nothing hangs, no
+ * logicals or one of the documented Excel errors with a message. Nothing throws, nothing hangs, no
  * NaN or Infinity reaches a cell. Seed 20261202; at least 10,000 cases per function.
  */
 import { ERROR_CODES } from '../../src/engine/errors';

@@ -1,5 +1,5 @@
 /**
- * The invented demo scenario of SPEC.md section 8: a fictional regional laboratory brings a second,
+ * The invented demo scenario: a fictional regional laboratory brings a second,
  * fictional chemistry analyser into service. Every name, value and source below is invented for
  * the demo; none is taken from any publication, laboratory, product or person. Every output that
  * uses it says "DEMO — invented data, not for clinical use".

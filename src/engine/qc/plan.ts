@@ -2,7 +2,7 @@
  * QC.PLAN: the simplest candidate QC procedure that detects the critical systematic error.
  *
  * Critical shift ΔSE_crit = (allowable − |bias|)/CV − 1.65 (QC.SHIFT; Westgard JO, Groth T.
- * Clin Chem 1979;25:863–9). For each candidate of SPEC.md section 4 (rule, n controls per run,
+ * Clin Chem 1979;25:863–9). For each candidate of the plan's list below (rule, n controls per run,
  * runs): detection = QC.DETECT(rule, n, ΔSE_crit, runs) and false rejection per run
  * = 1 − (1 − QC.FALSEREJECT(rule, n, runs))^(1/runs). A candidate meets the design when
  * detection ≥ target (default 0.90) and false rejection per run ≤ limit (default 0.05).
@@ -29,7 +29,7 @@ export interface QcCandidate {
   readonly runs: number;
 }
 
-/** SPEC.md section 4, in order of preference (simpler first). */
+/** The candidate designs, in order of preference (simpler first). */
 export const QC_CANDIDATES: readonly QcCandidate[] = [
   ...['1-3.5s', '1-3s', '1-2.5s'].flatMap((rule) => [1, 2, 3, 4].map((n) => ({ rule, n, runs: 1 }))),
   { rule: '1-3s/2-2s/R-4s', n: 2, runs: 1 },

@@ -1,7 +1,7 @@
 /**
  * Rejection probabilities of control rules (QC.DETECT, QC.FALSEREJECT) and power curves.
  *
- * Model (SPEC.md section 4; Westgard JO, Groth T. Clin Chem 1979;25:863–9): each control
+ * Model (docs/reference/control-rules.md; Westgard JO, Groth T. Clin Chem 1979;25:863–9): each control
  * observation is x = Δ + Z in SD units, Z standard normal and independent, Δ ≥ 0 the systematic
  * shift carried by every run. There are n observations per run, taken in order, over `runs`
  * runs. Consecutive-count terms read the whole sequence across runs; the range term R-Ls reads

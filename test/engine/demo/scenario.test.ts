@@ -1,5 +1,5 @@
 /**
- * The invented demo scenario (SPEC.md section 8). The raw data are generated from a fixed seed;
+ * The invented demo scenario. The raw data are generated from a fixed seed;
  * these checks hold the generator to its design (common practice, no source: a 5×5 precision
  * run, 10 EQA samples, 40 paired patient samples).
  */

@@ -7,7 +7,7 @@ import { mulberry32, uniform } from '../../support/prng';
 const Phi = (x: number): number => cdf(x, 0, 1);
 
 /**
- * The selection of SPEC.md section 4, written out again: detection at the critical shift
+ * The plan's selection rule, written out again: detection at the critical shift
  * (allowable − |bias|)/CV − 1.65, false rejection per run 1 − (1 − P_fr)^(1/runs); among those
  * meeting both, lowest n, then fewest runs, then lowest false rejection, then list order; else
  * the highest detection. Single rules use the stdlib closed form, multirules the engine.
@@ -42,7 +42,7 @@ function sameAs(plan: QcPlan, e: ReturnType<typeof expectedPlan>): void {
   expect(Math.abs(plan.falseRejectionPerRun - e.fr)).toBeLessThan(1e-9);
 }
 
-describe('QC.PLAN picks by the order of SPEC.md section 4', () => {
+describe('QC.PLAN picks by its documented order of candidates', () => {
   test('on a grid of sigma 1.0 … 8.0 (step 0.05), bias 0, CV 1', () => {
     for (let i = 0; i <= 140; i++) {
       const sigma = 1 + i * 0.05;

@@ -34,7 +34,7 @@ function codeOf(f: () => unknown): string | undefined {
 }
 
 describe('single-limit rules: the closed form 1 − [Φ(k−Δ) − Φ(−k−Δ)]^(n·runs)', () => {
-  // Closed form of SPEC.md section 4 (Westgard & Groth 1979 model), Φ from @stdlib (independent).
+  // Closed form of the Westgard & Groth 1979 model, Φ from @stdlib (independent).
   test('agrees with the stdlib closed form at 3000 seeded points (absolute 1e-12)', () => {
     const rand = mulberry32(19790601);
     for (let i = 0; i < 3000; i++) {

@@ -12,7 +12,7 @@ function errorOf(text: string): LeewayError {
   throw new Error(`"${text}" was accepted`);
 }
 
-describe('the control-rule parser (SPEC.md section 4)', () => {
+describe('the control-rule parser (docs/reference/control-rules.md)', () => {
   // The published rule names (Westgard et al. 1981) read into their kinds.
   test('reads each published term', () => {
     expect(parseRule('1-3s').terms).toEqual([{ kind: 'limit', limit: 3 }]);

@@ -1,6 +1,6 @@
 /**
  * An independent brute-force check of control-rule rejection probabilities: draws the control
- * observations and applies each rule's definition as SPEC.md section 4 words it, directly on the
+ * observations and applies each rule's definition as the published definitions word it (Westgard et al. 1981), directly on the
  * sequence (no interval classes, no state machine, no code shared with src/engine/qc). Seeded
  * (mulberry32 + Box–Muller), so a failure repeats.
  */
