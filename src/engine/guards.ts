@@ -13,7 +13,8 @@ import { divError, numError } from './errors';
 export function show(x: number): string {
   if (Number.isNaN(x)) return 'NaN';
   if (!Number.isFinite(x)) return x > 0 ? 'Infinity' : '-Infinity';
-  return String(x);
+  // 1.797e308 as typed, not JavaScript's 1.797e+308.
+  return String(x).replace('e+', 'e');
 }
 
 /** Any finite number (NaN and ±Infinity are out of range). */
@@ -54,7 +55,7 @@ export function wholeNumber(x: number, name: string, min = 1): number {
   return x;
 }
 
-/** "cvi is 1e+308, cvg is 2": the inputs of a formula, each as the user gave it. */
+/** "cvi is 1e308, cvg is 2": the inputs of a formula, each as the user gave it. */
 export function describeInputs(inputs: Readonly<Record<string, number>>): string {
   return Object.entries(inputs)
     .map(([name, x]) => `${name} is ${show(x)}`)
@@ -62,10 +63,26 @@ export function describeInputs(inputs: Readonly<Record<string, number>>): string
 }
 
 /**
+ * Inputs far from 1 in size (at least 1e100, or nonzero and at most 1e-100): the only ones that
+ * can carry a result of a few products and quotients past 1.8e308. Defaults (a z of 1.65, a k of
+ * 2) are never among them, so a message built from them names only what the user typed.
+ */
+function extremeInputs(inputs: Readonly<Record<string, number>>): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const [name, x] of Object.entries(inputs)) {
+    const a = Math.abs(x);
+    if (a >= 1e100 || (a > 0 && a <= 1e-100)) out[name] = x;
+  }
+  return out;
+}
+
+/**
  * A result that must be a finite double: x itself, or #NUM! when the exact result is beyond
- * ±1.8e308 (x is ±Infinity), with a message that names the inputs (`what` names the result).
+ * ±1.8e308 (x is ±Infinity), with a message that names the inputs far from 1 in size that carry
+ * it there (`what` names the result).
  */
 export function fits(x: number, inputs: Readonly<Record<string, number>>, what = 'the result'): number {
   if (x - x === 0) return x;
-  throw numError(`${what} exceeds the largest number Excel can hold (about 1.8e308 in size): ${describeInputs(inputs)}`);
+  const named = describeInputs(extremeInputs(inputs));
+  throw numError(`${what} exceeds the largest number Excel can hold (about 1.8e308 in size)${named ? `: ${named}` : ': the inputs are too far apart in size'}`);
 }
