@@ -63,17 +63,21 @@ export function describeInputs(inputs: Readonly<Record<string, number>>): string
 }
 
 /**
- * Inputs far from 1 in size (at least 1e100, or nonzero and at most 1e-100): the only ones that
- * can carry a result of a few products and quotients past 1.8e308. Defaults (a z of 1.65, a k of
- * 2) are never among them, so a message built from them names only what the user typed.
+ * The inputs that carry a result of a few products and quotients past 1.8e308: those far from 1
+ * in size (at least 1e100, or nonzero and at most 1e-100), else those beyond 1e10 or 1e-10, else
+ * all. Defaults (a z of 1.65, a k of 2) are never far from 1, so a message built from these names
+ * what the user typed, not a parameter the user left out.
  */
-function extremeInputs(inputs: Readonly<Record<string, number>>): Record<string, number> {
-  const out: Record<string, number> = {};
-  for (const [name, x] of Object.entries(inputs)) {
-    const a = Math.abs(x);
-    if (a >= 1e100 || (a > 0 && a <= 1e-100)) out[name] = x;
+export function inputsBeyond(inputs: Readonly<Record<string, number>>): Record<string, number> {
+  for (const edge of [100, 10]) {
+    const out: Record<string, number> = {};
+    for (const [name, x] of Object.entries(inputs)) {
+      const a = Math.abs(x);
+      if (a >= 10 ** edge || (a > 0 && a <= 10 ** -edge)) out[name] = x;
+    }
+    if (Object.keys(out).length) return out;
   }
-  return out;
+  return { ...inputs };
 }
 
 /**
@@ -83,6 +87,5 @@ function extremeInputs(inputs: Readonly<Record<string, number>>): Record<string,
  */
 export function fits(x: number, inputs: Readonly<Record<string, number>>, what = 'the result'): number {
   if (x - x === 0) return x;
-  const named = describeInputs(extremeInputs(inputs));
-  throw numError(`${what} exceeds the largest number Excel can hold (about 1.8e308 in size)${named ? `: ${named}` : ': the inputs are too far apart in size'}`);
+  throw numError(`${what} exceeds the largest number Excel can hold (about 1.8e308 in size): ${describeInputs(inputsBeyond(inputs))}`);
 }

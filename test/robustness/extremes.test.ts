@@ -17,7 +17,7 @@
 import { evaluate, FUNCTIONS } from '../../src/registry';
 import type { Arg } from '../../src/registry';
 import type { OutCell } from '../../src/registry/types';
-import { show } from '../../src/engine/guards';
+import { inputsBeyond, show } from '../../src/engine/guards';
 import { normalQuantile } from '../../src/engine/normal';
 import { tQuantile } from '../../src/engine/data/studentT';
 import { mulberry32 } from '../support/prng';
@@ -118,7 +118,8 @@ function checkCell(name: string, c: Case, cell: OutCell, e: Expect, s: Stats): s
     s.beyond++;
     if (!isError(cell) || cell.error !== '#NUM!') return `${where}: the exact result is beyond the largest double, got ${JSON.stringify(cell)}`;
     if (!/exceeds the largest number Excel can hold/.test(cell.message)) return `${where}: message does not say the result is too large: ${cell.message}`;
-    for (const [n, v] of Object.entries(c.names ?? {})) {
+    // The message names the inputs that carry the result out of range (inputsBeyond), as typed.
+    for (const [n, v] of Object.entries(inputsBeyond(c.names ?? {}))) {
       if (!cell.message.includes(`${n} is ${show(v)}`)) return `${where}: message does not name ${n} = ${show(v)}: ${cell.message}`;
     }
     return '';
