@@ -5,9 +5,26 @@ import type ExcelJS from 'exceljs';
 import { IMPORT_LIMITS, describeBytes } from '../engine/import/limits';
 import { decodeText } from '../engine/text/decode';
 
+const ERRNO_TEXT: Record<string, string> = {
+  ENOENT: 'no such file',
+  EISDIR: 'it is a folder',
+  EACCES: 'permission denied',
+  EPERM: 'permission denied',
+  EROFS: 'the disk is read-only',
+  ENOSPC: 'the disk is full',
+  EDQUOT: 'the disk quota is used up',
+  ENAMETOOLONG: 'the name is too long',
+  ENOTDIR: 'a folder in the path is a file',
+  EMFILE: 'too many open files',
+  EIO: 'an input/output error',
+};
+
+/** A system error as a short phrase: never the raw text, which names paths (a temporary's, say). */
 function whyNot(e: unknown): string {
   const code = (e as NodeJS.ErrnoException).code;
-  return code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' ? 'permission denied' : (e as Error).message;
+  if (code && ERRNO_TEXT[code]) return ERRNO_TEXT[code];
+  if (code) return `system error ${code}`;
+  return e instanceof Error ? e.message : String(e);
 }
 
 function kindOf(st: fs.Stats): string {
@@ -78,50 +95,158 @@ export function readText(file: string, what: string): string {
   return decoded.text;
 }
 
-/** Refuses an output path that exists unless forced, or whose folder does not exist. */
-export function checkOutput(out: string, force: boolean): void {
+/** What an output path holds now: nothing, or the file to replace (its mode kept). */
+interface Existing {
+  readonly mode: number;
+}
+
+function isReadOnly(st: fs.Stats): boolean {
+  return (st.mode & 0o222) === 0;
+}
+
+/**
+ * Refuses an output path that cannot or may not be replaced: a missing folder, a folder, a
+ * symbolic link (never written through: the link and its target are left alone, and the target's
+ * own path replaces it), anything but a regular file, an existing file without --force, and a
+ * read-only file that belongs to another user. A read-only file of the user's own is replaced
+ * with --force and keeps its mode (still read-only afterwards). Returns what exists.
+ */
+export function checkOutput(out: string, force: boolean): Existing | undefined {
   const dir = path.dirname(path.resolve(out));
   if (!fs.existsSync(dir)) throw new Error(`cannot write ${out}: the folder ${dir} does not exist`);
-  if (fs.existsSync(out)) {
-    if (fs.statSync(out).isDirectory()) throw new Error(`cannot write ${out}: it is a folder`);
-    if (!force) throw new Error(`${out} exists: nothing was written (add --force to replace it)`);
+  let st: fs.Stats;
+  try {
+    st = fs.lstatSync(out);
+  } catch (e) {
+    if ((e as NodeJS.ErrnoException).code === 'ENOENT') return undefined;
+    throw new Error(`cannot write ${out}: ${whyNot(e)}`, { cause: e });
+  }
+  if (st.isSymbolicLink()) {
+    let target = '';
+    try {
+      target = fs.readlinkSync(out);
+    } catch {
+      // The link's text is only for the message.
+    }
+    throw new Error(`${out} is a symbolic link${target ? ` to ${target}` : ''}: nothing was written (Leeway does not write through a link; give the path of the file itself)`);
+  }
+  if (st.isDirectory()) throw new Error(`cannot write ${out}: it is a folder`);
+  if (!st.isFile()) throw new Error(`cannot write ${out}: ${kindOf(st)}`);
+  const ro = isReadOnly(st);
+  if (!force) throw new Error(`${out} exists${ro ? ' and is read-only' : ''}: nothing was written (add --force to replace it)`);
+  const uid = process.getuid?.();
+  if (ro && uid !== undefined && st.uid !== uid) throw new Error(`${out} is read-only and belongs to another user: nothing was written`);
+  return { mode: st.mode & 0o7777 };
+}
+
+/** Temporaries being written by this process: removed if the process is interrupted. */
+const LIVE_TEMPORARIES = new Set<string>();
+const SIGNAL_EXIT: Record<string, number> = { SIGINT: 130, SIGTERM: 143 };
+
+function onSignal(signal: NodeJS.Signals): void {
+  for (const tmp of LIVE_TEMPORARIES) fs.rmSync(tmp, { force: true });
+  LIVE_TEMPORARIES.clear();
+  process.stderr.write(`leeway: interrupted (${signal}): nothing was written\n`);
+  process.exit(SIGNAL_EXIT[signal]);
+}
+
+function track(tmp: string): void {
+  if (LIVE_TEMPORARIES.size === 0) for (const sig of Object.keys(SIGNAL_EXIT)) process.on(sig, onSignal);
+  LIVE_TEMPORARIES.add(tmp);
+}
+
+function untrack(tmp: string): void {
+  LIVE_TEMPORARIES.delete(tmp);
+  if (LIVE_TEMPORARIES.size === 0) for (const sig of Object.keys(SIGNAL_EXIT)) process.off(sig, onSignal);
+}
+
+function escapeRegExp(s: string): string {
+  return s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+}
+
+function alive(pid: number): boolean {
+  if (pid === process.pid) return true;
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === 'EPERM';
   }
 }
 
 /**
- * Writes the workbook to a temporary file beside `out`, then renames it into place: a failure
- * leaves no partial file, and an existing file is replaced only whole.
+ * Removes temporaries a killed run left beside `abs` (`.NAME.<pid>.<stamp>.tmp`, where NAME is
+ * the output's name and no process <pid> is running): SIGKILL or a power cut gives no chance to
+ * clean up, so the next write to the same name does it. Other files are never touched.
  */
+export function removeStaleTemporaries(abs: string): string[] {
+  const dir = path.dirname(abs);
+  const pattern = new RegExp(`^\\.${escapeRegExp(path.basename(abs))}\\.(\\d+)\\.[0-9a-z]+\\.tmp$`);
+  const removed: string[] = [];
+  let names: string[];
+  try {
+    names = fs.readdirSync(dir);
+  } catch {
+    return removed;
+  }
+  for (const name of names) {
+    const m = pattern.exec(name);
+    if (!m || alive(Number(m[1]))) continue;
+    const p = path.join(dir, name);
+    try {
+      if (fs.lstatSync(p).isFile()) {
+        fs.rmSync(p, { force: true });
+        removed.push(name);
+      }
+    } catch {
+      // Gone already, or not ours to remove: leave it.
+    }
+  }
+  return removed;
+}
+
+/**
+ * Writes through a temporary file beside `out` (`.NAME.<pid>.<stamp>.tmp`), then renames it
+ * into place: a failure or an interruption (SIGINT, SIGTERM: the temporary is removed, exit 130
+ * or 143) leaves no partial file, and an existing file is replaced only whole, keeping its mode.
+ * Errors name the output, never the temporary.
+ */
+async function replaceAtomically(out: string, force: boolean, write: (tmp: string) => Promise<void> | void): Promise<void> {
+  checkOutput(out, force);
+  const abs = path.resolve(out);
+  removeStaleTemporaries(abs);
+  const tmp = path.join(path.dirname(abs), `.${path.basename(abs)}.${process.pid}.${Date.now().toString(36)}.tmp`);
+  track(tmp);
+  try {
+    try {
+      await write(tmp);
+    } catch (e) {
+      throw new Error(`cannot write ${out}: ${whyNot(e)}`, { cause: e });
+    }
+    const existing = checkOutput(out, force);
+    if (existing) fs.chmodSync(tmp, existing.mode);
+    try {
+      fs.renameSync(tmp, abs);
+    } catch (e) {
+      throw new Error(`cannot write ${out}: ${whyNot(e)}`, { cause: e });
+    }
+  } finally {
+    fs.rmSync(tmp, { force: true });
+    untrack(tmp);
+  }
+}
+
+/** Writes the workbook with exceljs through replaceAtomically. */
 export async function writeWorkbookAtomically(wb: ExcelJS.Workbook, out: string, force: boolean): Promise<void> {
-  checkOutput(out, force);
-  const abs = path.resolve(out);
-  const tmp = path.join(path.dirname(abs), `.${path.basename(abs)}.${process.pid}.${Date.now().toString(36)}.tmp`);
-  try {
-    await wb.xlsx.writeFile(tmp);
-    checkOutput(out, force);
-    fs.renameSync(tmp, abs);
-  } catch (e) {
-    fs.rmSync(tmp, { force: true });
-    throw e;
-  }
+  await replaceAtomically(out, force, (tmp) => wb.xlsx.writeFile(tmp));
 }
 
 /**
- * Writes bytes to a temporary file beside `out`, then renames it into place (also when `out` is
- * the file the bytes were read from: it is replaced whole or not at all).
+ * Writes bytes through replaceAtomically (also when `out` is the file the bytes were read from:
+ * it is replaced whole or not at all).
  */
-export function writeBytesAtomically(bytes: Uint8Array, out: string, force: boolean): void {
-  checkOutput(out, force);
-  const abs = path.resolve(out);
-  const tmp = path.join(path.dirname(abs), `.${path.basename(abs)}.${process.pid}.${Date.now().toString(36)}.tmp`);
-  try {
-    fs.writeFileSync(tmp, bytes);
-    checkOutput(out, force);
-    fs.renameSync(tmp, abs);
-  } catch (e) {
-    fs.rmSync(tmp, { force: true });
-    throw e;
-  }
+export async function writeBytesAtomically(bytes: Uint8Array, out: string, force: boolean): Promise<void> {
+  await replaceAtomically(out, force, (tmp) => fs.promises.writeFile(tmp, bytes));
 }
 
 /** Today as YYYY-MM-DD in local time. */

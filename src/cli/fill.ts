@@ -12,7 +12,7 @@ import { createHash } from 'crypto';
 import * as path from 'path';
 import { UsageError } from './call';
 import type { Io } from './main';
-import { one, readOptions } from './options';
+import { one, readDecimal, readOptions } from './options';
 import { readBytes, checkOutput, writeWorkbookAtomically, writeBytesAtomically, today, newWorkbook } from './files';
 import { progressBar } from './progress';
 import { writePlan } from './xlsx';
@@ -29,16 +29,32 @@ import { readTier } from '../engine/tiers';
 import { LeewayError } from '../engine/errors';
 import { Z_TOTAL_ERROR } from '../engine/coverage';
 
-export const FILL_USAGE = `  leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B]
+export const FILL_USAGE = `  leeway fill --table T.csv --out OUT.xlsx [--tier T] [--z Z] [--analytes A,B] [--analyte NAME]
               [--template X.xlsx [--sheet S] [--at A1] [--append]] [--overwrite] [--force]
               [--live] [--date YYYY-MM-DD] [--decimals N] [--map HEADER=FIELD]
               [--paper A4|Letter]
                                    fill a workbook from a variation table (values by default;
                                    --live writes LEEWAY formulas for the add-in); a template gets
                                    only its empty target cells written (--overwrite replaces the
-                                   others) and its other analytes only with --append`;
+                                   others) and its other analytes only with --append;
+                                   --analytes splits its list at commas, --analyte takes one name
+                                   whole (for a name with a comma: --analyte "Iron, total");
+                                   both may be repeated`;
 
 const DEFAULT_SHEET = 'Specifications';
+
+/**
+ * The analytes asked for: each --analytes value is a comma-separated list, each --analyte value one
+ * name taken whole (commas and all); both may be repeated and mixed, in the order given.
+ */
+export function analyteNames(lists: readonly string[] | undefined, single: readonly string[] | undefined): string[] {
+  const names = (lists ?? []).flatMap((s) => s.split(',')).map((s) => s.trim());
+  for (const n of single ?? []) {
+    if (n.trim() === '') throw new UsageError('fill: --analyte needs a name');
+    names.push(n.trim());
+  }
+  return names.filter(Boolean);
+}
 
 /** --map "Header text=field" (or "=" with nothing after it to ignore the column). */
 export function readMappings(list: readonly string[] | undefined, command: string): HeaderMapping {
@@ -65,15 +81,18 @@ export function readPaper(text: string | undefined, command: string): Paper {
 
 export async function fillCommand(args: string[], io: Io): Promise<number> {
   const o = readOptions('fill', args, {
-    values: ['table', 'out', 'tier', 'z', 'analytes', 'template', 'sheet', 'at', 'date', 'decimals', 'map', 'paper'],
+    values: ['table', 'out', 'tier', 'z', 'analytes', 'analyte', 'template', 'sheet', 'at', 'date', 'decimals', 'map', 'paper'],
     flags: ['overwrite', 'force', 'live', 'append'],
-    repeatable: ['map', 'analytes'],
+    repeatable: ['map', 'analytes', 'analyte'],
+    outExtensions: ['xlsx', 'xlsm', 'xltx', 'xltm'],
   });
   if (o.positional.length) throw new UsageError(`fill: unexpected argument ${o.positional[0]} (options are --table, --out, …)`);
   const tablePath = one(o, 'table');
   const out = one(o, 'out');
+  const template = one(o, 'template');
   if (!tablePath) throw new UsageError('fill needs --table T.csv');
   if (!out) throw new UsageError('fill needs --out OUT.xlsx');
+  if (!template && !out.toLowerCase().endsWith('.xlsx')) throw new UsageError(`fill: --out ${out}: a new workbook is an .xlsx file, so the name must end in .xlsx`);
   let tier: FillRequest['tier'] = 'desirable';
   const tierText = one(o, 'tier');
   if (tierText !== undefined) {
@@ -84,15 +103,14 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
     }
   }
   const zText = one(o, 'z');
-  const z = zText === undefined ? Z_TOTAL_ERROR : Number(zText);
-  if (!(Number.isFinite(z) && z >= 0) || (zText !== undefined && zText.trim() === '')) throw new UsageError(`fill: --z must be a number ≥ 0 (got ${zText})`);
+  const z = zText === undefined ? Z_TOTAL_ERROR : readDecimal(zText, 'fill: --z');
+  if (!(z >= 0)) throw new UsageError(`fill: --z must be a number ≥ 0 (got ${zText})`);
   const decText = one(o, 'decimals');
-  const decimals = decText === undefined ? 2 : Number(decText);
+  const decimals = decText === undefined ? 2 : readDecimal(decText, 'fill: --decimals');
   if (!(Number.isInteger(decimals) && decimals >= 0 && decimals <= 15)) throw new UsageError(`fill: --decimals must be a whole number from 0 to 15 (got ${decText})`);
+  // --date was checked as a calendar date by readOptions.
   const date = one(o, 'date') ?? today();
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(date)) throw new UsageError(`fill: --date must be YYYY-MM-DD (got ${date})`);
   const paper = readPaper(one(o, 'paper'), 'fill');
-  const template = one(o, 'template');
   const sheetName = one(o, 'sheet');
   const atText = one(o, 'at');
   if (atText !== undefined && !template) throw new UsageError('fill: --at needs --template (a new workbook is always filled from A1)');
@@ -117,9 +135,11 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   // Warnings (an encoding read as Windows-1252, a unit that differs) do not stop a fill: say them.
   for (const p of imported.problems) io.err(`leeway fill: ${formatProblem(p)}`);
   const table = acceptImport(imported);
-  const names = (o.values.get('analytes') ?? []).flatMap((s) => s.split(',')).map((s) => s.trim()).filter(Boolean);
+  const names = analyteNames(o.values.get('analytes'), o.values.get('analyte'));
   const selection = selectRows(table, names);
   if (selection.unknown.length) {
+    const whole = (o.values.get('analytes') ?? []).find((list) => list.includes(',') && selectRows(table, [list.trim()]).unknown.length === 0);
+    if (whole !== undefined) throw new UsageError(`fill: the table has an analyte named "${whole.trim()}" (with a comma): name it with --analyte "${whole.trim()}", which takes one name whole; --analytes splits at commas`);
     throw new Error(`the table has no analyte ${selection.unknown.map((n) => `"${n}"`).join(', ')}: nothing was written (it lists ${table.rows.slice(0, 8).map((r) => r.analyte).join(', ')}${table.rows.length > 8 ? ', …' : ''})`);
   }
   const base = { table, rows: selection.rows, tier, z, mode, overwrite: o.flags.has('overwrite'), date, decimals, tableSha256, writtenDecimals: imported.decimals };
@@ -150,6 +170,9 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   if ((kind === 'xlsm' || kind === 'xltm' || kind === 'xltx') && !out.toLowerCase().endsWith(`.${kind}`)) {
     throw new UsageError(`fill: the template ${template} is ${kind === 'xltx' ? 'an Excel template' : 'a macro-enabled workbook'} (.${kind}): write it to a .${kind} file (--out NAME.${kind}), or a spreadsheet program will refuse to open it`);
   }
+  if (kind === 'xlsx' && !out.toLowerCase().endsWith('.xlsx')) {
+    throw new UsageError(`fill: the template ${template} is an .xlsx workbook: write it to an .xlsx file (--out NAME.xlsx), or a spreadsheet program will refuse to open it`);
+  }
   let snapshot;
   let entry;
   try {
@@ -174,7 +197,7 @@ export async function fillCommand(args: string[], io: Io): Promise<number> {
   bar.update(0, 1);
   const filled = await wb.fill(entry, plan);
   bar.done();
-  writeBytesAtomically(filled.bytes, out, force);
+  await writeBytesAtomically(filled.bytes, out, force);
   io.out(summary(out, plan));
   const hints = { overwrite: 'add --overwrite to replace them', append: 'add --append to add them in empty rows below the table', pick: 'pick one with --analytes "NAME (SPECIMEN)"' };
   for (const line of formatTemplateReport(plan, hints)) io.out(line);

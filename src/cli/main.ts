@@ -3,7 +3,7 @@
  * 2 a usage error.
  */
 import * as readline from 'readline';
-import { callFunction, CallResult, parseCliArg, UsageError } from './call';
+import { callFunction, CallResult, parseCliArg, parseRequestLine, UsageError } from './call';
 import { findFunction, NAMESPACE } from '../registry';
 import { helpLines, listLines } from '../registry/metadata';
 import { VERSION } from '../engine/version';
@@ -11,20 +11,45 @@ import { fillCommand, FILL_USAGE } from './fill';
 import { checkCommand, CHECK_USAGE } from './check';
 import { demoCommand, DEMO_USAGE } from './demo';
 
+const CALL_USAGE = `  leeway call FUNCTION [ARG ...]   evaluate one worksheet function (with or without the ${NAMESPACE}. prefix)
+  leeway call --lines              read ["FUNCTION", arg, ...] per line on stdin, write one JSON result per line`;
+const LIST_USAGE = '  leeway list                      list the worksheet functions, their parameters and what each gives';
+const HELP_USAGE = `  leeway help FUNCTION             one function's help: formula, arguments, defaults, example, sources
+  leeway help                      this text
+  leeway COMMAND --help            one command's usage`;
+
 const USAGE = `leeway ${VERSION} — laboratory quality specifications, performance, QC design and uncertainty
 
 Usage:
-  leeway call FUNCTION [ARG ...]   evaluate one worksheet function (with or without the ${NAMESPACE}. prefix)
-  leeway call --lines              read ["FUNCTION", arg, ...] per line on stdin, write one JSON result per line
-  leeway list                      list the worksheet functions, their parameters and what each gives
-  leeway help FUNCTION             one function's help: formula, arguments, defaults, example, sources
+${CALL_USAGE}
+${LIST_USAGE}
 ${FILL_USAGE}
 ${CHECK_USAGE}
 ${DEMO_USAGE}
-  leeway help                      this text
+${HELP_USAGE}
 
 An ARG is a number, a word, or a JSON array for a range ([1,2,3] is a column, [[1,2],[3,4]] rows);
-null stands for an omitted optional argument.`;
+null stands for an omitted optional argument. A result that spills prints as rows; an error cell
+in it prints as its code, and its message goes to stderr as "row R, column C: #CODE! message"
+(exit 1). With --lines every input line gets exactly one output line, in order, blank and
+malformed lines included: {"value": V} or {"error": "#CODE!", "message": "..."}, and a spill with
+error cells adds "errors": [{"row": R, "col": C, "error": "#CODE!", "message": "..."}] (R and C
+count from 1 within the spill).
+
+Options: --name VALUE or --name=VALUE. Numbers are plain decimals (1.65, 2, 1e-3); dates are
+YYYY-MM-DD and must exist; --out names an .xlsx file (never "-"). An existing output is replaced
+only with --force, and a read-only one only if it is yours; an output that is a symbolic link is
+refused (name its target instead).`;
+
+/** Each command's own usage, printed by `leeway COMMAND --help`. */
+const COMMAND_USAGE: Record<string, string> = {
+  call: CALL_USAGE,
+  list: LIST_USAGE,
+  help: HELP_USAGE,
+  fill: FILL_USAGE,
+  check: CHECK_USAGE,
+  demo: DEMO_USAGE,
+};
 
 export interface Io {
   out: (s: string) => void;
@@ -39,37 +64,46 @@ const stdio: Io = {
 function printResult(r: CallResult, io: Io): number {
   if (r.ok) {
     io.out(JSON.stringify(r.value));
-    return 0;
+    for (const e of r.errors ?? []) io.err(`row ${e.row}, column ${e.col}: ${e.error} ${e.message}`);
+    return r.errors?.length ? 1 : 0;
   }
   io.err(`${r.error} ${r.message}`);
   return 1;
 }
 
+const REQUEST = 'send ["FUNCTION", arg, ...]';
+
 /** One --lines request turned into its JSON reply (never throws). */
 export function answerLine(line: string): string {
+  if (line.trim() === '') return JSON.stringify({ error: '#VALUE!', message: `this line is empty: ${REQUEST}` });
   let request: unknown;
   try {
-    request = JSON.parse(line);
-  } catch {
-    return JSON.stringify({ error: '#VALUE!', message: 'this line is not JSON: send ["FUNCTION", arg, ...]' });
+    request = parseRequestLine(line);
+  } catch (e) {
+    const message = e instanceof UsageError ? e.message : `this line is not JSON: ${REQUEST}`;
+    return JSON.stringify({ error: '#VALUE!', message });
   }
   if (!Array.isArray(request) || typeof request[0] !== 'string') {
-    return JSON.stringify({ error: '#VALUE!', message: 'each line must be a JSON array ["FUNCTION", arg, ...]' });
+    return JSON.stringify({ error: '#VALUE!', message: `each line must be a JSON array: ${REQUEST}` });
   }
   try {
     const r = callFunction(request[0], request.slice(1));
-    return JSON.stringify(r.ok ? { value: r.value } : { error: r.error, message: r.message });
+    if (!r.ok) return JSON.stringify({ error: r.error, message: r.message });
+    return JSON.stringify(r.errors ? { value: r.value, errors: r.errors } : { value: r.value });
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);
     return JSON.stringify({ error: '#VALUE!', message });
   }
 }
 
+/**
+ * Answers stdin line by line: exactly one reply per line, blank lines included, in order. Replies
+ * are written in batches; when the reader goes away (EPIPE) the process ends quietly (runCli).
+ */
 async function callLines(): Promise<number> {
   const rl = readline.createInterface({ input: process.stdin, crlfDelay: Infinity });
   const chunks: string[] = [];
   for await (const line of rl) {
-    if (line.trim() === '') continue;
     chunks.push(answerLine(line));
     if (chunks.length >= 256) {
       process.stdout.write(chunks.join('\n') + '\n');
@@ -126,7 +160,11 @@ export async function main(argv: string[], io: Io = stdio): Promise<number> {
     io.out(VERSION);
     return 0;
   }
-  const run = COMMANDS[command];
+  const run: Command | undefined = Object.hasOwn(COMMANDS, command) ? COMMANDS[command] : undefined;
+  if (run && (rest[0] === '--help' || rest[0] === '-h')) {
+    io.out(COMMAND_USAGE[command] ?? USAGE);
+    return 0;
+  }
   try {
     if (!run) throw new UsageError(`unknown command "${command}" (try: leeway help)`);
     return await run(rest, io);

@@ -13,7 +13,8 @@ import { divError, numError } from './errors';
 export function show(x: number): string {
   if (Number.isNaN(x)) return 'NaN';
   if (!Number.isFinite(x)) return x > 0 ? 'Infinity' : '-Infinity';
-  return String(x);
+  // 1.797e308 as typed, not JavaScript's 1.797e+308.
+  return String(x).replace('e+', 'e');
 }
 
 /** Any finite number (NaN and ±Infinity are out of range). */
@@ -54,7 +55,7 @@ export function wholeNumber(x: number, name: string, min = 1): number {
   return x;
 }
 
-/** "cvi is 1e+308, cvg is 2": the inputs of a formula, each as the user gave it. */
+/** "cvi is 1e308, cvg is 2": the inputs of a formula, each as the user gave it. */
 export function describeInputs(inputs: Readonly<Record<string, number>>): string {
   return Object.entries(inputs)
     .map(([name, x]) => `${name} is ${show(x)}`)
@@ -62,10 +63,29 @@ export function describeInputs(inputs: Readonly<Record<string, number>>): string
 }
 
 /**
+ * The inputs that carry a result of a few products and quotients past 1.8e308: those far from 1
+ * in size (at least 1e100, or nonzero and at most 1e-100), else those beyond 1e10 or 1e-10, else
+ * all. Defaults (a z of 1.65, a k of 2) are never far from 1, so a message built from these names
+ * what the user typed, not a parameter the user left out.
+ */
+export function inputsBeyond(inputs: Readonly<Record<string, number>>): Record<string, number> {
+  for (const edge of [100, 10]) {
+    const out: Record<string, number> = {};
+    for (const [name, x] of Object.entries(inputs)) {
+      const a = Math.abs(x);
+      if (a >= 10 ** edge || (a > 0 && a <= 10 ** -edge)) out[name] = x;
+    }
+    if (Object.keys(out).length) return out;
+  }
+  return { ...inputs };
+}
+
+/**
  * A result that must be a finite double: x itself, or #NUM! when the exact result is beyond
- * ±1.8e308 (x is ±Infinity), with a message that names the inputs (`what` names the result).
+ * ±1.8e308 (x is ±Infinity), with a message that names the inputs far from 1 in size that carry
+ * it there (`what` names the result).
  */
 export function fits(x: number, inputs: Readonly<Record<string, number>>, what = 'the result'): number {
   if (x - x === 0) return x;
-  throw numError(`${what} exceeds the largest number Excel can hold (about 1.8e308 in size): ${describeInputs(inputs)}`);
+  throw numError(`${what} exceeds the largest number Excel can hold (about 1.8e308 in size): ${describeInputs(inputsBeyond(inputs))}`);
 }

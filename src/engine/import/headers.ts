@@ -9,7 +9,9 @@
  * - On a limit column: "(%)" or "%" makes it the percent limit, a unit ("Limit (mmol/L)",
  *   "TEa [µmol/L]") or "(abs.)" the absolute limit in that unit; a bare "Limit" or "TEa" could
  *   be either and is reported as ambiguous, as is a name that says one kind with a unit of the
- *   other ("limit_pct (mmol/L)").
+ *   other ("limit_pct (mmol/L)") and a bracket that names both kinds ("Limit (mmol/L or %)",
+ *   "TEa (abs/rel)").
+ * - On a percent column, "(SD)" or "(absolute)" says it is not a CV: reported, never dropped.
  */
 
 /** How a column's header may speak of units. */
@@ -68,29 +70,47 @@ export function looksLikeUnit(text: string): boolean {
   return BARE_UNIT.test(t.replace(/\s+/g, ''));
 }
 
-type BracketSense = 'percent' | 'absolute' | 'unit' | 'words';
+type BracketSense = 'percent' | 'absolute' | 'unit' | 'mixed' | 'spread' | 'words';
+
+/** Words that make a bracket speak of a percent, however else it is written ("% or mmol/L", "abs/rel"). */
+const PERCENT_TOKEN = /%|\b(?:percent|pct|rel|relative)\b/i;
+/** Words that make a bracket speak of an amount in the result's unit. */
+const ABSOLUTE_TOKEN = /\b(?:abs|absolute|units?)\b/i;
+/** Words that say a column holds an SD or a variance, not a CV. */
+const SPREAD_WORD = /^(?:sd|s\.d\.?|standard\s+deviation|variance|var)$/i;
 
 function bracketSense(b: string): BracketSense {
   if (PERCENT_WORD.test(b)) return 'percent';
   if (ABSOLUTE_WORD.test(b)) return 'absolute';
+  if (SPREAD_WORD.test(b)) return 'spread';
+  // Two kinds in one bracket ("mmol/L or %", "abs/rel", "% of mmol/L"): neither is dropped.
+  if (PERCENT_TOKEN.test(b) && (ABSOLUTE_TOKEN.test(b) || b.replace(PERCENT_TOKEN, ' ').split(/\s+|\bor\b/).some((w) => looksLikeUnit(w)))) return 'mixed';
+  if (/\b(?:or|and)\b/i.test(b)) return 'words';
   if (looksLikeUnit(b)) return 'unit';
   return 'words';
 }
 
-/** What the header says about units: percent, a unit (the first one given), an absolute word, other words. */
-function unitsOf(parts: ReturnType<typeof headerParts>): { percent: boolean; unit?: string; absolute: boolean; words: boolean } {
+/**
+ * What the header says about units: percent, a unit (the first one given), an absolute word, an
+ * SD word, a bracket naming two kinds at once (mixed), other words.
+ */
+function unitsOf(parts: ReturnType<typeof headerParts>): { percent: boolean; unit?: string; absolute: boolean; spread: boolean; mixed?: string; words: boolean } {
   let percent = parts.percent;
   let unit: string | undefined;
   let absolute = false;
+  let spread = false;
+  let mixed: string | undefined;
   let words = false;
   for (const b of parts.brackets) {
     const s = bracketSense(b);
     if (s === 'percent') percent = true;
     else if (s === 'absolute') absolute = true;
+    else if (s === 'spread') spread = true;
+    else if (s === 'mixed') mixed = mixed ?? b;
     else if (s === 'unit') unit = unit ?? b;
     else words = true;
   }
-  return { percent, unit, absolute, words };
+  return { percent, unit, absolute, spread, mixed, words };
 }
 
 /** Name and alias lookup tables of a spec, built once per spec. */
@@ -120,10 +140,14 @@ export function readHeader<F extends string>(spec: HeaderSpec<F>, header: string
   const units = unitsOf(parts);
   const limits = spec.limits;
 
-  if (limits && LIMIT_WORDS.includes(parts.key)) return genericLimit(limits, raw, units);
-
   const named = byName.get(parts.key);
   const field = named ?? byAlias.get(parts.key);
+  const generic = limits !== undefined && LIMIT_WORDS.includes(parts.key);
+  if (units.mixed !== undefined && (generic || (field !== undefined && spec.units[field] !== 'text'))) {
+    const candidates = generic || (limits && (field === limits.abs || field === limits.pct)) ? [limits!.abs, limits!.pct] : [field!];
+    return { kind: 'ambiguous', candidates, why: `"${raw}" says "${units.mixed}": a percent and an amount at once` };
+  }
+  if (limits && generic) return genericLimit(limits, raw, units);
   if (field === undefined) return { kind: 'unknown' };
   const by = named ? ('name' as const) : ('alias' as const);
 
@@ -137,6 +161,9 @@ export function readHeader<F extends string>(spec: HeaderSpec<F>, header: string
   }
   switch (spec.units[field]) {
     case 'percent':
+      if (units.spread || units.absolute) {
+        return { kind: 'ambiguous', candidates: [field], why: `"${raw}" names ${field}, a percent number, but says it is ${units.spread ? 'an SD' : 'absolute'}: an SD is not a CV` };
+      }
       if (units.unit !== undefined && units.unit !== '%') {
         return { kind: 'ambiguous', candidates: [field], why: `"${raw}" names ${field}, a percent number, but gives the unit ${units.unit}: is this column an SD rather than a CV?` };
       }

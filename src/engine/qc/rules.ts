@@ -1,5 +1,5 @@
 /**
- * Control rules: the syntax of SPEC.md section 4 read into a typed rule.
+ * Control rules: the rule syntax read into a typed rule.
  *
  * A rule is terms joined by `/`; observations are in SD units from the target mean.
  *   `1-<L>s`         any observation beyond ±L                                  (kind 'limit')
@@ -34,6 +34,9 @@ export interface ControlRule {
 /** The largest count of a consecutive-count rule and the widest a-of-b window accepted. */
 export const MAX_COUNT = 100;
 export const MAX_WINDOW = 6;
+/** The longest rule accepted: terms as written (before duplicates are removed) and characters. */
+export const MAX_TERMS = 20;
+export const MAX_RULE_LENGTH = 200;
 
 const NUMBER = '(\\d+(?:\\.\\d*)?|\\.\\d+)';
 const LIMIT_TERM = new RegExp(`^(\\d+)-${NUMBER}s$`);
@@ -108,16 +111,19 @@ export function parseTerm(raw: string): RuleTerm {
 const PARSED = new BoundedCache<string, ControlRule>(2000);
 
 /**
- * Reads a rule such as "1-3s/2-2s/R-4s" (SPEC.md section 4). Unknown or malformed terms are
- * #VALUE! with a message naming the term. Results are cached by the text as typed.
+ * Reads a rule such as "1-3s/2-2s/R-4s". Unknown or malformed terms are #VALUE! with a message
+ * naming the term; so is a rule of more than MAX_TERMS terms or MAX_RULE_LENGTH characters. Results are cached by the text as typed.
  */
 export function parseRule(text: string): ControlRule {
   const hit = PARSED.get(text);
   if (hit) return hit;
   if (text.trim() === '') throw valueError(`rule is empty: ${SYNTAX}`);
+  if (text.length > MAX_RULE_LENGTH) throw valueError(`rule is ${text.length} characters long: at most ${MAX_RULE_LENGTH} are accepted`);
+  const parts = text.split('/');
+  if (parts.length > MAX_TERMS) throw valueError(`rule has ${parts.length} terms: at most ${MAX_TERMS} are accepted`);
   const terms: RuleTerm[] = [];
   const seen = new Set<string>();
-  for (const part of text.split('/')) {
+  for (const part of parts) {
     const term = parseTerm(part);
     const name = termText(term);
     if (seen.has(name)) continue;
