@@ -316,6 +316,7 @@ export function writeEqaSheet(wb: ExcelJS.Workbook, input: EqaSheetInput): EqaSh
   const gs = groups(input);
   const analytes = gs.map((g) => eqaRounds(g.analyte, g.records, { limit: g.limit }));
   summaryTable(doc, gs, analytes);
+  const firstRows = roundsTable(doc, gs, analytes, input.results);
   const pictures = charts(analytes, gs);
   const perRow = 2;
   const rowsEach = Math.max(1, ...pictures.map((p) => rowsFor(p.height, 15)));
@@ -325,7 +326,6 @@ export function writeEqaSheet(wb: ExcelJS.Workbook, input: EqaSheetInput): EqaSh
     chartRow = doc.row;
     doc.skip(Math.ceil(pictures.length / perRow) * rowsEach);
   }
-  const firstRows = roundsTable(doc, gs, analytes, input.results);
   const peers = (input.peerRounds ?? []).map((p) => scorePeerRound(p.results));
   const peerBlocks = peerSection(doc, input.peerRounds ?? [], peers);
   const noteBlock = notes(doc);
