@@ -247,7 +247,7 @@ function roundsTable(doc: DocumentSheet, gs: readonly Group[], analytes: readonl
 function peerSection(doc: DocumentSheet, peers: readonly EqaPeerRoundInput[], scored: readonly PeerRound[]): Array<[number, number]> {
   const blocks: Array<[number, number]> = [];
   if (!peers.length) return blocks;
-  doc.text("Comparison rounds among the laboratory's own analysers", { bold: true, size: 12 });
+  const head = doc.text("Comparison rounds among the laboratory's own analysers", { bold: true, size: 12 });
   doc.note('Each result against the consensus of all the analysers in the round: assigned value = robust mean x*, sd_pt = robust SD s*, u(assigned) = 1.25·s*/√p (LEEWAY.EQA.CONSENSUS, Algorithm A); z′ while u(assigned) > 0.3·s* (fewer than 18 analysers).');
   peers.forEach((p, k) => {
     const s = scored[k];
@@ -265,7 +265,8 @@ function peerSection(doc: DocumentSheet, peers: readonly EqaPeerRoundInput[], sc
     const c = s.consensus;
     const values: DocValue[] = c.ok ? [c.value.robustMean, c.value.robustSd, c.value.participants, c.value.uncertainty] : [cell(c), null, null, null];
     values.forEach((v, j) => doc.put(cRow, j + 1, v, { format: j === 2 ? '0' : '0.000' }));
-    blocks.push([top, doc.note(`Consensus: =LEEWAY.EQA.CONSENSUS(B${first}:B${doc.row - 1}); scores: =LEEWAY.EQA.ZSCORE(result, robust mean, robust SD${kind === 'z′' ? ', uncertainty' : ''}).`)]);
+    // The section's heading and note stay with its first round.
+    blocks.push([k === 0 ? head : top, doc.note(`Consensus: =LEEWAY.EQA.CONSENSUS(B${first}:B${doc.row - 1}); scores: =LEEWAY.EQA.ZSCORE(result, robust mean, robust SD${kind === 'z′' ? ', uncertainty' : ''}).`)]);
     doc.skip();
   });
   return blocks;
