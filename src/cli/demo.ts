@@ -29,6 +29,8 @@ import { assess } from '../engine/assess';
 import type { Fig } from '../engine/assess';
 import type { QcPlan } from '../engine/qc/plan';
 import { QC_PLAN } from '../registry/catalogue/qc';
+import { writeEqaSheet } from './eqa';
+import { demoEqaInput } from './eqa/demo';
 
 export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live] [--date YYYY-MM-DD] [--paper A4|Letter]
                                    build the demo workbook (invented data) in FILE (default leeway-demo.xlsx)`;
@@ -265,22 +267,16 @@ function replicationSheet(ctx: DemoContext): void {
   doc.finish();
 }
 
-/** EQA: raw data, mean and RMS bias, and the bias uncertainty. */
+/**
+ * EQA: the invented rounds per analyte scored and judged (z or z′ and ζ as live formulas, band,
+ * running mean and RMS, the EQA limit by SPEC.FIXED), a chart per analyte, and an invented
+ * comparison round among the laboratory's own analysers scored against their consensus.
+ */
 function eqaSheet(ctx: DemoContext): void {
-  const doc = demoSheet(ctx, 'EQA', `Leeway demo: external quality assessment, ${DEMO_ANALYSERS.candidate}`);
-  writeResultsAndRaw(doc, ctx.figures, {
-    resultsHeader: ['Analyte', 'Mean bias %', 'RMS bias %', `u(bias) % (u_ref ${DEMO_U_REF} %, invented)`, 'Formula'],
-    rawHeader: ['Analyte', 'Sample', 'Assigned value', 'Result', 'Bias %'],
-    raw: (f) => {
-      const fmt = levelFormat(f.data.level);
-      return f.data.eqa.map((x) => ({ values: [f.data.analyte, x.sample, x.target, x.result, (100 * (x.result - x.target)) / x.target], formats: [undefined, undefined, fmt, fmt, P2] }));
-    },
-    results: (f, first, last) => ({
-      values: [f.data.analyte, show(f.bias), show(f.rmsBias), show(f.uBias), `=LEEWAY.DATA.BIAS(D${first}:D${last},C${first}:C${last})`],
-      formats: [undefined, P2, P2, P2],
-    }),
-  });
-  doc.finish();
+  const table = demoTable();
+  const analytes = ctx.figures.map((f, i) => ({ data: f.data, cvi: f.cvi, limitAbs: table.rows[i].limitAbs, limitPct: table.rows[i].limitPct, expandedPercent: num(f.expanded) }));
+  const intro = [`${DEMO_LAB}: bringing ${DEMO_ANALYSERS.candidate} into service beside ${DEMO_ANALYSERS.current}. Leeway ${VERSION}.`];
+  writeEqaSheet(ctx.wb, demoEqaInput(analytes, { date: ctx.date, paper: ctx.paper, intro }));
 }
 
 /** Method comparison: Passing–Bablok at the medical decision level. */

@@ -85,6 +85,63 @@ describe('leeway demo', () => {
     });
   });
 
+  test('the EQA sheet: every invented round scored by a live EQA.ZSCORE the registry reproduces, running figures equal DATA.BIAS and DATA.RMSBIAS, a chart per analyte', () => {
+    const ws = built.wb.getWorksheet('EQA')!;
+    let header = 0;
+    ws.eachRow((row, r) => {
+      if (!header && row.getCell(1).value === 'Analyte' && row.getCell(2).value === 'Round') header = r;
+    });
+    expect(header).toBeGreaterThan(0);
+    const names: string[] = [];
+    ws.getRow(header).eachCell((c, k) => void (names[k] = String(c.value)));
+    const col = (n: string) => names.indexOf(n);
+    let r = header + 1;
+    for (const d of demoData()) {
+      d.eqa.forEach((x, i) => {
+        const row = ws.getRow(r + i);
+        expect(row.getCell(col('Analyte')).value).toBe(d.analyte);
+        expect(row.getCell(col('Round')).value).toBe(x.sample);
+        expect(row.getCell(col('Result')).value).toBe(x.result);
+        expect(row.getCell(col('Assigned value')).value).toBe(x.target);
+        const score = row.getCell(col('Score')).value as ExcelJS.CellFormulaValue;
+        expect(score.formula).toMatch(/^_xldudf_LEEWAY_EQA_ZSCORE\(/);
+        const args = [x.result, x.target, row.getCell(col('sd_pt')).value as number];
+        if (row.getCell(col('Score type')).value === 'z′') args.push(row.getCell(col('u(assigned)')).value as number);
+        // exceljs reads a cached 0 back as no result (the file holds <v>0</v>).
+        expect(evaluate('EQA.ZSCORE', args)[0][0]).toBe(score.result ?? (x.result === x.target ? 0 : 'missing'));
+        expect(['satisfactory', 'questionable', 'unsatisfactory']).toContain(row.getCell(col('Band')).value);
+      });
+      const last = ws.getRow(r + d.eqa.length - 1);
+      const results = d.eqa.map((x) => [x.result]);
+      const targets = d.eqa.map((x) => [x.target]);
+      const mean = evaluate('DATA.BIAS', [results, targets])[0][0] as number;
+      const rms = evaluate('DATA.RMSBIAS', [results, targets])[0][0] as number;
+      expect(Math.abs((last.getCell(col('Running mean deviation %')).value as number) - mean)).toBeLessThanOrEqual(1e-13 * rms);
+      expect(relClose(last.getCell(col('Running RMS deviation %')).value as number, rms, 1e-14)).toBe(true);
+      r += d.eqa.length + 1;
+    }
+    expect(ws.getImages()).toHaveLength(demoData().length);
+    expect(texts(ws).some((t) => /provider's own evaluation .* is the one of record/.test(t))).toBe(true);
+  });
+
+  test('the EQA sheet’s invented inter-analyser rounds: the consensus is EQA.CONSENSUS’s on the analysers’ results', () => {
+    const ws = built.wb.getWorksheet('EQA')!;
+    const rows: number[] = [];
+    ws.eachRow((row, r) => {
+      if (row.getCell(1).value === 'Robust mean') rows.push(r);
+    });
+    expect(rows).toHaveLength(3);
+    for (const h of rows) {
+      const values: number[] = [];
+      for (let r = h + 3; typeof ws.getCell(r, 2).value === 'number'; r++) values.push(ws.getCell(r, 2).value as number);
+      expect(values).toHaveLength(7);
+      const c = evaluate('EQA.CONSENSUS', [values.map((v) => [v])]);
+      expect(ws.getCell(h + 1, 1).value).toBe(c[1][0]);
+      expect(ws.getCell(h + 1, 2).value).toBe(c[1][1]);
+      expect(ws.getCell(h + 1, 4).value).toBe(c[1][3]);
+    }
+  });
+
   test('an existing output is refused without --force', async () => {
     const r = await leeway('demo', '--out', built.file);
     expect(r.code).toBe(1);

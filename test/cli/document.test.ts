@@ -166,16 +166,19 @@ describe('leeway demo: every sheet is a printed document', () => {
     }
   });
 
-  test('sheets with raw data repeat the raw data’s header row, the long table', () => {
-    for (const name of ['Replication', 'EQA', 'Comparison']) {
+  test('sheets with raw data repeat the raw data’s header row, the long table; the EQA sheet its rounds table’s', () => {
+    const titleOf = (ws: ExcelJS.Worksheet) => Number(/^\$?(\d+):/.exec(ws.pageSetup.printTitlesRow!)![1]);
+    for (const name of ['Replication', 'Comparison']) {
       const ws = wb.getWorksheet(name)!;
-      const title = Number(/^\$?(\d+):/.exec(ws.pageSetup.printTitlesRow!)![1]);
-      expect(ws.getCell(title - 1, 1).value).toBe('Raw data (invented)');
+      expect(ws.getCell(titleOf(ws) - 1, 1).value).toBe('Raw data (invented)');
     }
+    const eqa = wb.getWorksheet('EQA')!;
+    expect(eqa.getCell(titleOf(eqa) - 1, 1).value).toBe('Rounds');
+    expect([1, 2].map((c) => eqa.getCell(titleOf(eqa), c).value)).toEqual(['Analyte', 'Round']);
   });
 
   test('each results row’s formula points at its own analyte’s raw data rows (the layout moved them)', () => {
-    for (const [name, col] of [['Replication', 11], ['EQA', 5], ['Comparison', 11]] as const) {
+    for (const [name, col] of [['Replication', 11], ['Comparison', 11]] as const) {
       const ws = wb.getWorksheet(name)!;
       const top = rowOf(ws, 'Analyte') + 1;
       let rows = 0;

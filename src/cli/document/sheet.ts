@@ -90,7 +90,8 @@ export function shownText(cell: ExcelJS.Cell): string {
   if (typeof v === 'object') {
     if ('error' in v) return String(v.error);
     if ('richText' in v) return v.richText.map((p) => p.text).join('');
-    if ('result' in v) {
+    // A formula read back from a file may carry no result (exceljs drops a cached 0): it shows its result or nothing.
+    if ('result' in v || 'formula' in v || 'sharedFormula' in v) {
       const r = (v as ExcelJS.CellFormulaValue).result;
       if (typeof r === 'number') return shownNumber(r, cell.numFmt);
       if (r && typeof r === 'object' && 'error' in r) return String(r.error);
