@@ -3,9 +3,10 @@
  * same rules as a variation table. Columns: analyte, round (the scheme's round or sample label),
  * result (the laboratory's), assigned (the assigned value), sd_pt (the standard deviation for
  * proficiency assessment) — required; u_assigned (the standard uncertainty of the assigned
- * value; blank or absent means 0), unit, date, note — optional. result, assigned, sd_pt and
- * u_assigned are in the result's unit; sd_pt > 0 and u_assigned ≥ 0, as the z and zeta scores of
- * ISO 13528:2015 need.
+ * value; blank or absent means 0), u_result (the laboratory's own standard uncertainty of its
+ * result, for the ζ score; blank or absent means none), unit, date, note — optional. result,
+ * assigned, sd_pt, u_assigned and u_result are in the result's unit; sd_pt > 0 and u_assigned,
+ * u_result ≥ 0, as the z, z′ and ζ scores of ISO 13528:2015 need.
  *
  * Checks: required columns and cells; numbers; sd_pt > 0; u_assigned ≥ 0; readable dates; a unit
  * stated in a header against the row's unit (warning). Across rows: the same analyte and round
@@ -19,11 +20,11 @@ import type { UnitRule } from './headers';
 import type { ImportProblem, ImportReport, ReadOptions } from './types';
 import { DateOrder, groupInOrder, labelKey, requireFields } from './order';
 
-export type EqaField = 'analyte' | 'round' | 'result' | 'assigned' | 'sd_pt' | 'u_assigned' | 'unit' | 'date' | 'note';
+export type EqaField = 'analyte' | 'round' | 'result' | 'assigned' | 'sd_pt' | 'u_assigned' | 'u_result' | 'unit' | 'date' | 'note';
 
-export const EQA_FIELDS: readonly EqaField[] = ['analyte', 'round', 'result', 'assigned', 'sd_pt', 'u_assigned', 'unit', 'date', 'note'];
+export const EQA_FIELDS: readonly EqaField[] = ['analyte', 'round', 'result', 'assigned', 'sd_pt', 'u_assigned', 'u_result', 'unit', 'date', 'note'];
 export const EQA_REQUIRED: readonly EqaField[] = ['analyte', 'round', 'result', 'assigned', 'sd_pt'];
-export const EQA_NUMERIC: readonly EqaField[] = ['result', 'assigned', 'sd_pt', 'u_assigned'];
+export const EQA_NUMERIC: readonly EqaField[] = ['result', 'assigned', 'sd_pt', 'u_assigned', 'u_result'];
 
 /** Other names for each field, in normalised form (lower case, no spaces _ - . : /). */
 export const EQA_ALIASES: Readonly<Record<EqaField, readonly string[]>> = {
@@ -32,7 +33,8 @@ export const EQA_ALIASES: Readonly<Record<EqaField, readonly string[]>> = {
   result: ['value', 'reportedvalue', 'reported', 'yourresult', 'labresult', 'ownresult', 'measuredvalue'],
   assigned: ['assignedvalue', 'xpt', 'target', 'targetvalue', 'referencevalue', 'consensus', 'consensusvalue'],
   sd_pt: ['sigmapt', 'σpt', 'sdforproficiencyassessment', 'standarddeviationforproficiencyassessment', 'targetsd'],
-  u_assigned: ['uxpt', 'uassignedvalue', 'uncertaintyofassignedvalue', 'uncertaintyassigned', 'uncertainty'],
+  u_assigned: ['uxpt', 'uassignedvalue', 'uncertaintyofassignedvalue', 'uncertaintyassigned'],
+  u_result: ['uresult', 'ulab', 'labuncertainty', 'uncertaintyofresult', 'uncertaintyresult', 'ownuncertainty'],
   unit: ['units', 'uom'],
   date: ['datetime', 'time', 'timestamp', 'resultdate', 'rounddate'],
   note: ['notes', 'comment', 'comments', 'remark', 'remarks'],
@@ -45,6 +47,7 @@ const UNITS: Readonly<Record<EqaField, UnitRule>> = {
   assigned: 'amount',
   sd_pt: 'spread',
   u_assigned: 'spread',
+  u_result: 'spread',
   unit: 'text',
   date: 'text',
   note: 'text',
@@ -74,6 +77,8 @@ export interface EqaResult {
   readonly sdPt: number;
   /** The standard uncertainty of the assigned value, ≥ 0 (0 when not given). */
   readonly uAssigned: number;
+  /** The laboratory's standard uncertainty of its result, ≥ 0; null when not given (no ζ score). */
+  readonly uResult: number | null;
   readonly unit: string;
   readonly date: string | null;
   readonly note: string;
@@ -149,7 +154,8 @@ function eqaRow(row: RowReader<EqaField>, seen: Map<string, number>, order: Date
   const assigned = row.number('assigned');
   const sdPt = row.number('sd_pt');
   const u = row.has('u_assigned') ? row.number('u_assigned') : null;
-  if (result === undefined || assigned === undefined || sdPt === undefined || u === undefined) bad = true;
+  const uResult = row.has('u_result') ? row.number('u_result') : null;
+  if (result === undefined || assigned === undefined || sdPt === undefined || u === undefined || uResult === undefined) bad = true;
   if (typeof sdPt === 'number' && !(sdPt > 0)) {
     row.problem('error', 'not-positive', 'sd_pt', `sd_pt must be greater than 0 (got ${row.text('sd_pt')}): the z score divides by it`);
     bad = true;
@@ -158,9 +164,13 @@ function eqaRow(row: RowReader<EqaField>, seen: Map<string, number>, order: Date
     row.problem('error', 'negative', 'u_assigned', `u_assigned must not be negative (got ${row.text('u_assigned')}): it is a standard uncertainty`);
     bad = true;
   }
+  if (typeof uResult === 'number' && uResult < 0) {
+    row.problem('error', 'negative', 'u_result', `u_result must not be negative (got ${row.text('u_result')}): it is a standard uncertainty`);
+    bad = true;
+  }
   const date = row.date('date');
   if (date === undefined) bad = true;
-  checkUnits(EQA_KIND, row, ['result', 'assigned', 'sd_pt', 'u_assigned']);
+  checkUnits(EQA_KIND, row, ['result', 'assigned', 'sd_pt', 'u_assigned', 'u_result']);
 
   const analyte = row.text('analyte');
   const round = row.text('round');
@@ -181,6 +191,7 @@ function eqaRow(row: RowReader<EqaField>, seen: Map<string, number>, order: Date
     assigned,
     sdPt,
     uAssigned: u ?? 0,
+    uResult: uResult ?? null,
     unit: row.text('unit'),
     date: date ?? null,
     note: row.text('note'),

@@ -108,6 +108,13 @@ describe('EQA results file', () => {
     expect(acceptEqa(r).results[0].uAssigned).toBe(0);
   });
 
+  test('u_result, the laboratory\'s own standard uncertainty, is read for the ζ score; blank or absent is none, negative an error', () => {
+    const r = parseEqaText('analyte,round,result,assigned,sd_pt,u_assigned,u_result\nArvelin,1,5.3,5.2,0.2,0.02,0.05\nArvelin,2,5.3,5.2,0.2,0.02,\n');
+    expect(acceptEqa(r).results.map((x) => x.uResult)).toEqual([0.05, null]);
+    expect(acceptEqa(parseEqaText('analyte,round,result,assigned,sd_pt\nArvelin,1,5.3,5.2,0.2\n')).results[0].uResult).toBeNull();
+    expect(where(parseEqaText('analyte,round,result,assigned,sd_pt,u_result\nArvelin,1,5.3,5.2,0.2,-0.05\n'))).toEqual(['error negative 2 F u_result']);
+  });
+
   test('missing required columns, non-numbers, sd_pt ≤ 0 and u_assigned < 0', () => {
     expect(where(parseEqaText('analyte,result\nArvelin,5\n'))).toEqual(['error missing-column 1 - round', 'error missing-column 1 - assigned', 'error missing-column 1 - sd_pt']);
     const r = parseEqaText(`${EQA}\nArvelin,1,n/a,5.2,0.2,0.01\nArvelin,2,5.3,5.2,0,0.01\nArvelin,3,5.3,5.2,-0.2,\nArvelin,4,5.3,5.2,0.2,-0.01\n`);
