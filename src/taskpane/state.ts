@@ -54,10 +54,23 @@ export interface FilledSheet {
   readonly tier: Tier;
 }
 
+/** Where the sheet tier came from: the pane's choice (Fill), or the tier cell of a filled sheet. */
+export type TierOrigin = { readonly kind: 'pane' } | { readonly kind: 'cell'; readonly sheet: string; readonly cell: string };
+
+/** The last change of a filled sheet's tier cell the pane made or saw. */
+export interface TierCellChange {
+  readonly sheet: string;
+  readonly cell: string;
+  readonly before: Tier;
+  readonly after: Tier;
+}
+
 export class PaneState {
   tableId = 'demo';
   table: VariationTable | null = null;
   sheetTier: Tier = DEFAULT_TIER;
+  sheetTierOrigin: TierOrigin = { kind: 'pane' };
+  tierCellChange: TierCellChange | null = null;
   /** Per-analyte tier overrides (keyed by keyOf). */
   readonly analyteTier = new Map<string, Tier>();
   coverage: Coverage = DEFAULT_COVERAGE;
@@ -85,8 +98,11 @@ export class PaneState {
     this.changed('table');
   }
 
-  setSheetTier(t: Tier): void {
+  /** The sheet tier, and where it came from (a tier cell's change is remembered when the tier moves). */
+  setSheetTier(t: Tier, origin: TierOrigin = { kind: 'pane' }): void {
+    if (origin.kind === 'cell' && t !== this.sheetTier) this.tierCellChange = { sheet: origin.sheet, cell: origin.cell, before: this.sheetTier, after: t };
     this.sheetTier = t;
+    this.sheetTierOrigin = origin;
     this.changed('tiers');
   }
 
@@ -136,4 +152,15 @@ export class PaneState {
   tierFor(r: VariationRow): Tier {
     return this.analyteTier.get(keyOf(r)) ?? this.sheetTier;
   }
+
+  /** Where an analyte's tier comes from, in words: its own tier, the tier cell, or the pane's choice. */
+  tierOriginOf(r: VariationRow): string {
+    if (this.analyteTier.has(keyOf(r))) return 'its own tier, chosen in Fill';
+    return sheetTierWords(this.sheetTierOrigin);
+  }
+}
+
+/** Where the sheet tier came from, in words. */
+export function sheetTierWords(o: TierOrigin): string {
+  return o.kind === 'cell' ? `the tier cell ${o.sheet}!${o.cell}` : 'the sheet tier chosen in Fill';
 }
