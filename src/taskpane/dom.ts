@@ -102,3 +102,16 @@ export function radioGroup<V extends string>(
   }
   return box;
 }
+
+/**
+ * An SVG drawing made as a string (src/charts) as a node of this page: parsed as XML (no HTML
+ * parser, no scripts run), then imported. Throws when the string is not one SVG document.
+ */
+export function svgFromString(markup: string): SVGSVGElement {
+  const doc = new DOMParser().parseFromString(markup, 'image/svg+xml');
+  const root = doc.documentElement;
+  if (root.localName !== 'svg' || root.namespaceURI !== SVG_NS || doc.getElementsByTagName('parsererror').length > 0) {
+    throw new Error('The chart could not be drawn.');
+  }
+  return document.importNode(root, true) as unknown as SVGSVGElement;
+}
