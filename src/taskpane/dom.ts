@@ -115,3 +115,17 @@ export function svgFromString(markup: string): SVGSVGElement {
   }
   return document.importNode(root, true) as unknown as SVGSVGElement;
 }
+
+/**
+ * Gives a table explicit ARIA table roles, so it stays a table to screen readers when a narrow
+ * layout shows its rows as blocks (CSS display changes can drop the implicit roles).
+ */
+export function keepTableRoles(table: HTMLTableElement): HTMLTableElement {
+  table.setAttribute('role', 'table');
+  for (const g of Array.from(table.querySelectorAll('thead, tbody'))) g.setAttribute('role', 'rowgroup');
+  for (const tr of Array.from(table.querySelectorAll('tr'))) tr.setAttribute('role', 'row');
+  for (const th of Array.from(table.querySelectorAll('thead th'))) th.setAttribute('role', 'columnheader');
+  for (const th of Array.from(table.querySelectorAll('tbody th'))) th.setAttribute('role', 'rowheader');
+  for (const td of Array.from(table.querySelectorAll('td'))) td.setAttribute('role', 'cell');
+  return table;
+}

@@ -57,6 +57,8 @@ export interface SummaryRow {
   readonly runs: number | string;
   readonly detection: number | string;
   readonly falseRejection: number | string;
+  /** QC.RUNSIZE of the plan: patient results between QC events (acceptable risk 1). */
+  readonly runSize: number | string;
 }
 
 export interface SummaryRequest {

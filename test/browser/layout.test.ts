@@ -7,7 +7,7 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import type { Page } from 'playwright-core';
-import { describeInBrowser, DIST, usePane } from './harness';
+import { describeInBrowser, DIST, usePane, installedSansFamilies } from './harness';
 import { view, screenshot } from './helpers';
 import { CAUTION } from '../../src/engine/caution';
 
@@ -32,20 +32,63 @@ async function unnamed(page: Page): Promise<string[]> {
 describeInBrowser('task pane: narrow width, keyboard, caution', () => {
   const open = usePane();
 
-  test('at 320 px no view scrolls sideways, and every visible control has a name', async () => {
-    const { context, page, errors } = await open({ width: 320 });
-    // Put content in every view: observed figures for the demo, a fill check.
+  const families = installedSansFamilies();
+  if (families.length < 2) console.warn(`only ${families.length} of the sans-serif families checked is installed (${families.join(', ') || 'none'}): .ci/run installs fonts-liberation2 and fonts-urw-base35`);
+
+  /** Puts content in every view: observed figures for the demo, a fill check, a QC plan with its risk chart. */
+  async function fillViews(page: Page): Promise<void> {
     await view(page, 'whatif');
     await page.click('#use-demo-observed');
     await view(page, 'fill');
     await page.click('#check-fill');
     await page.waitForSelector('#run-fill');
+    await view(page, 'qc');
+    await page.waitForSelector('#qc-risk-chart svg');
+  }
+
+  /** What spills sideways in the visible view: the page, any scroll box, any verdict cell. */
+  async function overflow(page: Page): Promise<string[]> {
+    return page.evaluate(() => {
+      const out: string[] = [];
+      const vw = window.innerWidth;
+      const doc = Math.max(document.documentElement.scrollWidth, document.body.scrollWidth);
+      if (doc > vw) out.push(`page ${doc} > ${vw}`);
+      for (const el of Array.from(document.querySelectorAll<HTMLElement>('.panel:not([hidden]) .scroll-x'))) {
+        if (el.scrollWidth > el.clientWidth + 1) out.push(`scroll box ${el.firstElementChild?.id ?? ''} ${el.scrollWidth} > ${el.clientWidth}`);
+      }
+      const verdicts = '.panel:not([hidden]) td[data-col="met"], .panel:not([hidden]) #summary-table td.rule, .panel:not([hidden]) #summary-table td[data-col="run-size"], .panel:not([hidden]) #qc-plan dd, .panel:not([hidden]) #qc-risk-verdict';
+      for (const el of Array.from(document.querySelectorAll<HTMLElement>(verdicts))) {
+        const r = el.getBoundingClientRect();
+        if (r.right > vw + 0.5 || r.left < -0.5) out.push(`verdict “${el.textContent}” at ${r.left.toFixed(0)}–${r.right.toFixed(0)}`);
+      }
+      return out;
+    });
+  }
+
+  test.each(families.length ? families : ['(the installed default)'])('at 320 px in %s no view scrolls sideways, every verdict is in view, every visible control has a name', async (family) => {
+    const { context, page, errors } = await open({ width: 320, fontFamily: families.length ? family : undefined });
+    if (families.length) {
+      // The family is really in use: text measures differently from the monospace fallback.
+      const differs = await page.evaluate((f) => {
+        const c = document.createElement('canvas').getContext('2d')!;
+        c.font = `14px "${f}", monospace`;
+        const a = c.measureText('Allowable total error 0123456789').width;
+        c.font = '14px monospace';
+        return a !== c.measureText('Allowable total error 0123456789').width && getComputedStyle(document.body).fontFamily.includes(f);
+      }, family);
+      expect(differs).toBe(true);
+    }
+    await fillViews(page);
+    await view(page, 'summary');
+    await page.waitForSelector('#summary-table');
     for (const v of VIEWS) {
       await view(page, v);
-      const widths = await page.evaluate(() => ({ doc: document.documentElement.scrollWidth, body: document.body.scrollWidth, view: window.innerWidth }));
-      expect({ view: v, width: Math.max(widths.doc, widths.body) }).toEqual({ view: v, width: widths.view });
+      expect({ family, view: v, overflow: await overflow(page) }).toEqual({ family, view: v, overflow: [] });
       expect({ view: v, unnamed: await unnamed(page) }).toEqual({ view: v, unnamed: [] });
     }
+    // The verdicts the narrow layout must keep in view are there to be checked.
+    await view(page, 'whatif');
+    expect(await page.$$eval('#menu-table td[data-col="met"]', (e) => e.length)).toBeGreaterThan(0);
     expect(errors).toEqual([]);
     await context.close();
   });

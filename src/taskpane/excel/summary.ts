@@ -21,6 +21,7 @@ const NUMBER_FORMATS: Readonly<Record<string, string>> = {
   'Observed total error %': '0.00',
   Detection: '0.000',
   'False rejection per run': '0.000',
+  'Run size': '#,##0',
 };
 
 export async function writeSummarySheet(context: Excel.RequestContext, req: SummaryRequest): Promise<SummaryResult> {

@@ -6,22 +6,25 @@
  * Shape of a view: the rows come from the pane's state by a pure function (`summaryOf`), the
  * preview is a pure render of them, and the one handler writes the sheet through `ctx.run`.
  */
-import { h, replace, field } from '../dom';
+import { h, replace, field, keepTableRoles } from '../dom';
 import type { PaneContext, View } from '../view';
 import { PaneError } from '../view';
 import type { SummaryRow } from '../host';
 import type { PaneState } from '../state';
-import { zOf } from '../state';
+import { zOf, sheetTierWords } from '../state';
 import { keyOf } from '../analytes';
 import { summaryHeader, summaryRow } from '../summaryRows';
 import { fmt, tierLabel, today } from '../format';
 import { DEMO_MARKER } from '../../engine/caution';
+import { tierChangeNote, followTierCell } from '../tierNote';
 
 const PREVIEW = 30;
 
 /** What the view shows, computed from the pane's state alone. */
 export interface SummaryModel {
   readonly picked: number;
+  /** The sheet tier, where it came from, and how many picked analytes have their own tier. */
+  readonly tier: { readonly sheet: string; readonly from: string; readonly own: number };
   readonly withObserved: number;
   readonly demo: boolean;
   /** The rows, or why there are none. */
@@ -33,6 +36,7 @@ export function summaryOf(state: PaneState): SummaryModel {
   const q = zOf(state.coverage);
   return {
     picked: picked.length,
+    tier: { sheet: state.sheetTier, from: sheetTierWords(state.sheetTierOrigin), own: picked.filter((r) => state.analyteTier.has(keyOf(r))).length },
     withObserved: picked.filter((r) => state.observed.has(keyOf(r))).length,
     demo: Boolean(state.table?.demo),
     rows: q.ok ? picked.map((r) => summaryRow(r, state.tierFor(r), q.z, state.observed.get(keyOf(r)))) : `The coverage in Fill is not valid: ${q.why}.`,
@@ -61,7 +65,9 @@ function tierMetText(t: string): string {
 /** Pure: the counts line above the preview. */
 export function renderCounts(m: SummaryModel): Node[] {
   const line = h('p', { class: 'hint', id: 'summary-counts' }, `${m.picked} analyte${m.picked === 1 ? '' : 's'} picked; ${m.withObserved} with observed bias and CV (enter them in What-if). Analytes without them are listed as “no observed data”.`);
-  return m.demo ? [line, h('p', { class: 'badge demo' }, DEMO_MARKER)] : [line];
+  const own = m.tier.own ? `; ${m.tier.own} analyte${m.tier.own === 1 ? ' has its' : 's have their'} own tier (Fill)` : '';
+  const tier = h('p', { class: 'hint tier-origin', id: 'summary-tier' }, `Tier ${tierLabel(m.tier.sheet)}, from ${m.tier.from}${own}.`);
+  return m.demo ? [line, tier, h('p', { class: 'badge demo' }, DEMO_MARKER)] : [line, tier];
 }
 
 /** Pure: the preview table of the rows with a sigma (or the reason there are none). */
@@ -76,15 +82,16 @@ export function renderPreview(m: SummaryModel): Node | null {
         'tr',
         {},
         h('th', { scope: 'row' }, r.analyte),
-        h('td', {}, typeof r.sigma === 'number' ? fmt(r.sigma) : '—'),
-        h('td', {}, tierMetText(r.tierMet)),
-        h('td', { class: 'rule' }, ...planCell(r)),
+        h('td', { 'data-label': 'Sigma' }, typeof r.sigma === 'number' ? fmt(r.sigma) : '—'),
+        h('td', { 'data-label': 'Tier met' }, tierMetText(r.tierMet)),
+        h('td', { class: 'rule', 'data-label': 'Plan' }, ...planCell(r)),
+        h('td', { 'data-label': 'Run size', 'data-col': 'run-size' }, typeof r.runSize === 'number' ? r.runSize.toLocaleString('en-US') : '—'),
       ),
     );
   }
   const caption = `Preview (analytes with observed data${shown.length === PREVIEW ? `, first ${PREVIEW}` : ''})`;
-  const head = h('thead', {}, h('tr', {}, ...['Analyte', 'Sigma', 'Tier met', 'Plan'].map((t) => h('th', { scope: 'col' }, t))));
-  return h('div', { class: 'scroll-x' }, h('table', { class: 'grid-table numbers compact', id: 'summary-table' }, h('caption', {}, caption), head, tbody));
+  const head = h('thead', {}, h('tr', {}, ...['Analyte', 'Sigma', 'Tier met', 'Plan', 'Run size'].map((t) => h('th', { scope: 'col' }, t))));
+  return h('div', { class: 'scroll-x' }, keepTableRoles(h('table', { class: 'grid-table numbers compact stack-narrow', id: 'summary-table' }, h('caption', {}, caption), head, tbody)));
 }
 
 /** Handler: writes the summary sheet; resolves to the message for the status line. */
@@ -97,7 +104,8 @@ async function writeSummary(ctx: PaneContext, sheetName: string): Promise<string
   if (typeof rows === 'string') throw new PaneError(rows);
   if (rows.length === 0) throw new PaneError('Pick at least one analyte (Fill).');
   try {
-    const out = await ctx.host.writeSummary({ sheetName, rows, header: summaryHeader(state.table, state.sheetTier, q.z, today()) });
+    const header = summaryHeader(state.table, state.sheetTier, q.z, today(), sheetTierWords(state.sheetTierOrigin));
+    const out = await ctx.host.writeSummary({ sheetName, rows, header });
     return `Wrote ${out.sheet}: ${rows.length} rows in ${out.tableAddress}, chart of sigma from ${out.chartSeriesAddress}.`;
   } catch (e) {
     throw new PaneError(`The summary was not written: ${e instanceof Error ? e.message : String(e)}`);
@@ -105,6 +113,7 @@ async function writeSummary(ctx: PaneContext, sheetName: string): Promise<string
 }
 
 export function summaryView(ctx: PaneContext): View {
+  const notice = h('div', { class: 'notices', id: 'summary-notices' });
   const counts = h('div', { class: 'summary-counts' });
   const preview = h('div', { class: 'preview', id: 'summary-preview' });
   const nameInput = h('input', { type: 'text', id: 'summary-sheet-name', value: 'Summary' });
@@ -116,8 +125,9 @@ export function summaryView(ctx: PaneContext): View {
   const root = h(
     'div',
     { class: 'view summary' },
+    notice,
     h('h2', {}, 'Summary sheet'),
-    h('p', {}, 'One row per picked analyte: the tier met, the sigma metric at its tier and the QC plan (QC.PLAN), with a chart of sigma by analyte.'),
+    h('p', {}, 'One row per picked analyte: the tier met, the sigma metric at its tier, the QC plan (QC.PLAN) and its run size (QC.RUNSIZE), with a chart of sigma by analyte.'),
     counts,
     field('New sheet name', nameInput, 'A number is added if the name is taken.'),
     h('div', { class: 'actions' }, write),
@@ -126,9 +136,19 @@ export function summaryView(ctx: PaneContext): View {
 
   function render(): void {
     const m = summaryOf(ctx.state);
+    replace(notice, tierChangeNote(ctx.state, 'summary-tier-change'));
     replace(counts, ...renderCounts(m));
     replace(preview, renderPreview(m));
   }
 
-  return { root, refresh: render };
+  ctx.state.on((t) => {
+    if (t === 'tiers' && root.isConnected && root.closest('[hidden]') === null) render();
+  });
+  return {
+    root,
+    refresh() {
+      render();
+      void followTierCell(ctx);
+    },
+  };
 }

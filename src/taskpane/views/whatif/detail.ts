@@ -3,7 +3,7 @@
  * observed figures when there are some, the most stringent tier met and the allowance chart.
  * Pure: everything comes from the pane's state and the analyte's key.
  */
-import { h } from '../../dom';
+import { h, keepTableRoles } from '../../dom';
 import type { PaneState } from '../../state';
 import { keyOf, displayName } from '../../analytes';
 import { fmt, showFigure, tierLabel } from '../../format';
@@ -31,13 +31,14 @@ function tierTable(res: WhatIfResult, withObserved: boolean): HTMLTableElement {
     }
     tbody.appendChild(h('tr', { 'data-tier': r.tier }, ...cells));
   }
-  return h(
+  const table = h(
     'table',
     { class: `grid-table numbers${withObserved ? ' stack-narrow' : ''}`, id: 'whatif-tiers' },
     h('caption', {}, 'Allowable, % (total error at the z in use)'),
     h('thead', {}, h('tr', {}, ...head.map((t) => h('th', { scope: 'col' }, t)))),
     tbody,
   );
+  return withObserved ? keepTableRoles(table) : table;
 }
 
 function metText(res: WhatIfResult): string | null {

@@ -2,7 +2,7 @@
  * Every analyte in scope at its own tier: total allowance, sigma, share and tier met, with the
  * counts per tier met; and the action that reads bias and CV for all rows of the active sheet.
  */
-import { h, replace } from '../../dom';
+import { h, replace, keepTableRoles } from '../../dom';
 import type { PaneContext } from '../../view';
 import { PaneError } from '../../view';
 import type { PaneState, Observed } from '../../state';
@@ -57,7 +57,7 @@ export function renderMenu(state: PaneState, readAll: HTMLButtonElement): Node[]
     h('h2', {}, `All picked analytes (${rows.length})`),
     h('p', { class: 'hint', id: 'menu-counts' }, countsText(rows.length, counts)),
     h('div', { class: 'actions' }, readAll),
-    h('div', { class: 'scroll-x' }, h('table', { class: 'grid-table numbers compact stack-narrow', id: 'menu-table' }, caption, head, h('tbody', {}, ...rows))),
+    h('div', { class: 'scroll-x' }, keepTableRoles(h('table', { class: 'grid-table numbers compact stack-narrow', id: 'menu-table' }, caption, head, h('tbody', {}, ...rows)))),
   ];
 }
 
