@@ -130,11 +130,33 @@ export function installedSansFamilies(candidates: readonly string[] = ['DejaVu S
   return candidates.filter((c) => names.has(c));
 }
 
+/** A Content-Security-Policy violation as the page reported it. */
+export interface CspViolation {
+  readonly directive: string;
+  readonly blocked: string;
+  /** The script that caused it ("" when the browser does not say). */
+  readonly source: string;
+}
+
+/** Collects the page's CSP violations in window.leewayCsp (installed before any script runs). */
+const CSP_COLLECTOR = `window.leewayCsp = [];
+document.addEventListener('securitypolicyviolation', function (e) {
+  window.leewayCsp.push({ directive: e.violatedDirective, blocked: e.blockedURI, source: e.sourceFile || '' });
+});`;
+
+/** The CSP violations the page has reported so far. */
+export function cspViolations(page: Page): Promise<CspViolation[]> {
+  return page.evaluate(() => (window as unknown as { leewayCsp: CspViolation[] }).leewayCsp);
+}
+
 /** Opens the pane in a fresh context (fresh storage), Office simulated; resolves once it is ready. */
-export async function openPane(browser: Browser, base: string, o: PaneOptions = {}): Promise<{ context: BrowserContext; page: Page; errors: string[] }> {
+export async function openPane(browser: Browser, base: string, o: PaneOptions = {}): Promise<{ context: BrowserContext; page: Page; errors: string[]; requests: string[] }> {
   const context = await browser.newContext({ viewport: { width: o.width ?? 320, height: o.height ?? 720 }, deviceScaleFactor: 1 });
   const page = await context.newPage();
   const errors: string[] = [];
+  const requests: string[] = [];
+  page.on('request', (r) => requests.push(r.url()));
+  await page.addInitScript({ content: CSP_COLLECTOR });
   page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`));
   page.on('console', (m) => {
     if (m.type() === 'error') errors.push(`console: ${m.text()}`);
@@ -154,7 +176,7 @@ export async function openPane(browser: Browser, base: string, o: PaneOptions = 
   }
   await page.goto(`${base}/taskpane.html`);
   await page.waitForSelector('body[data-ready="true"]', { timeout: 20000 });
-  return { context, page, errors };
+  return { context, page, errors, requests };
 }
 
 export const SCREENSHOTS = path.join(ROOT, 'out', 'screenshots');
