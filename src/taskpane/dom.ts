@@ -102,3 +102,30 @@ export function radioGroup<V extends string>(
   }
   return box;
 }
+
+/**
+ * An SVG drawing made as a string (src/charts) as a node of this page: parsed as XML (no HTML
+ * parser, no scripts run), then imported. Throws when the string is not one SVG document.
+ */
+export function svgFromString(markup: string): SVGSVGElement {
+  const doc = new DOMParser().parseFromString(markup, 'image/svg+xml');
+  const root = doc.documentElement;
+  if (root.localName !== 'svg' || root.namespaceURI !== SVG_NS || doc.getElementsByTagName('parsererror').length > 0) {
+    throw new Error('The chart could not be drawn.');
+  }
+  return document.importNode(root, true) as unknown as SVGSVGElement;
+}
+
+/**
+ * Gives a table explicit ARIA table roles, so it stays a table to screen readers when a narrow
+ * layout shows its rows as blocks (CSS display changes can drop the implicit roles).
+ */
+export function keepTableRoles(table: HTMLTableElement): HTMLTableElement {
+  table.setAttribute('role', 'table');
+  for (const g of Array.from(table.querySelectorAll('thead, tbody'))) g.setAttribute('role', 'rowgroup');
+  for (const tr of Array.from(table.querySelectorAll('tr'))) tr.setAttribute('role', 'row');
+  for (const th of Array.from(table.querySelectorAll('thead th'))) th.setAttribute('role', 'columnheader');
+  for (const th of Array.from(table.querySelectorAll('tbody th'))) th.setAttribute('role', 'rowheader');
+  for (const td of Array.from(table.querySelectorAll('td'))) td.setAttribute('role', 'cell');
+  return table;
+}

@@ -41,7 +41,7 @@ export interface RangeRef {
   readonly address: string;
 }
 
-/** One summary row (issue 7): what the pane computed for one analyte. */
+/** One summary row: what the pane computed for one analyte. */
 export interface SummaryRow {
   readonly analyte: string;
   readonly specimen: string;
@@ -57,6 +57,8 @@ export interface SummaryRow {
   readonly runs: number | string;
   readonly detection: number | string;
   readonly falseRejection: number | string;
+  /** QC.RUNSIZE of the plan: patient results between QC events (acceptable risk 1). */
+  readonly runSize: number | string;
 }
 
 export interface SummaryRequest {

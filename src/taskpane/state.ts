@@ -1,7 +1,7 @@
 /**
  * What the pane remembers while it is open: the table in use, the tiers chosen, the coverage,
  * the analytes picked and any observed bias/CV typed or read. Views read it and announce changes
- * through `changed`; nothing here touches the DOM or Excel.
+ * through its setters, which notify the listeners; nothing here touches the DOM or Excel.
  */
 import type { VariationRow, VariationTable } from '../engine/table';
 import type { Tier } from '../engine/tiers';
@@ -54,10 +54,23 @@ export interface FilledSheet {
   readonly tier: Tier;
 }
 
+/** Where the sheet tier came from: the pane's choice (Fill), or the tier cell of a filled sheet. */
+export type TierOrigin = { readonly kind: 'pane' } | { readonly kind: 'cell'; readonly sheet: string; readonly cell: string };
+
+/** The last change of a filled sheet's tier cell the pane made or saw. */
+export interface TierCellChange {
+  readonly sheet: string;
+  readonly cell: string;
+  readonly before: Tier;
+  readonly after: Tier;
+}
+
 export class PaneState {
   tableId = 'demo';
   table: VariationTable | null = null;
   sheetTier: Tier = DEFAULT_TIER;
+  sheetTierOrigin: TierOrigin = { kind: 'pane' };
+  tierCellChange: TierCellChange | null = null;
   /** Per-analyte tier overrides (keyed by keyOf). */
   readonly analyteTier = new Map<string, Tier>();
   coverage: Coverage = DEFAULT_COVERAGE;
@@ -85,6 +98,49 @@ export class PaneState {
     this.changed('table');
   }
 
+  /** The sheet tier, and where it came from (a tier cell's change is remembered when the tier moves). */
+  setSheetTier(t: Tier, origin: TierOrigin = { kind: 'pane' }): void {
+    if (origin.kind === 'cell' && t !== this.sheetTier) this.tierCellChange = { sheet: origin.sheet, cell: origin.cell, before: this.sheetTier, after: t };
+    this.sheetTier = t;
+    this.sheetTierOrigin = origin;
+    this.changed('tiers');
+  }
+
+  /** A tier for one analyte, or null to follow the sheet's tier. */
+  setAnalyteTier(key: string, t: Tier | null): void {
+    if (t === null) this.analyteTier.delete(key);
+    else this.analyteTier.set(key, t);
+    this.changed('tiers');
+  }
+
+  setCoverage(c: Coverage): void {
+    this.coverage = c;
+    this.changed('coverage');
+  }
+
+  /** Picks (or unpicks) analytes by key. */
+  pick(keys: Iterable<string>, on: boolean): void {
+    for (const k of keys) {
+      if (on) this.selected.add(k);
+      else this.selected.delete(k);
+    }
+    this.changed('selection');
+  }
+
+  /** Observed bias and CV for analytes by key (null removes them). */
+  setObserved(entries: Iterable<readonly [string, Observed | null]>): void {
+    for (const [k, o] of entries) {
+      if (o === null) this.observed.delete(k);
+      else this.observed.set(k, o);
+    }
+    this.changed('observed');
+  }
+
+  setFilled(f: FilledSheet | null): void {
+    this.filled = f;
+    this.changed('filled');
+  }
+
   rows(): readonly VariationRow[] {
     return this.table ? this.table.rows : [];
   }
@@ -96,4 +152,15 @@ export class PaneState {
   tierFor(r: VariationRow): Tier {
     return this.analyteTier.get(keyOf(r)) ?? this.sheetTier;
   }
+
+  /** Where an analyte's tier comes from, in words: its own tier, the tier cell, or the pane's choice. */
+  tierOriginOf(r: VariationRow): string {
+    if (this.analyteTier.has(keyOf(r))) return 'its own tier, chosen in Fill';
+    return sheetTierWords(this.sheetTierOrigin);
+  }
+}
+
+/** Where the sheet tier came from, in words. */
+export function sheetTierWords(o: TierOrigin): string {
+  return o.kind === 'cell' ? `the tier cell ${o.sheet}!${o.cell}` : 'the sheet tier chosen in Fill';
 }

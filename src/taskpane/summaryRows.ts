@@ -1,5 +1,5 @@
 /**
- * The summary sheet's content (issue 7): one row per picked analyte with its tier, allowable
+ * The summary sheet's content: one row per picked analyte with its tier, allowable
  * total error at that tier, observed bias/CV/total error, sigma, the most stringent tier met and
  * the QC.PLAN choice, all from the engine; and the provenance and caution lines above it.
  * Pure, so the numbers can be checked without Excel.
@@ -29,6 +29,7 @@ export const SUMMARY_HEADERS = [
   'Runs',
   'Detection',
   'False rejection per run',
+  'Run size',
   'Note',
 ] as const;
 
@@ -42,13 +43,13 @@ export function summaryRow(r: VariationRow, tier: Tier, z: number, obs: Observed
   const a = assess({ spec: r, tier, z, observed: obs, plan: true });
   const base = { analyte: displayName(r), specimen: r.specimen, tier, allowable: shown(a.inUse.total) };
   if (!obs) {
-    return { ...base, bias: '', cv: '', observedTotal: '', sigma: '', tierMet: 'no observed data', rule: '', controls: '', runs: '', detection: '', falseRejection: '' };
+    return { ...base, bias: '', cv: '', observedTotal: '', sigma: '', tierMet: 'no observed data', rule: '', controls: '', runs: '', detection: '', falseRejection: '', runSize: '' };
   }
   const tierMet = a.tierMet.ok ? a.tierMet.value : explain(a.tierMet);
   const common = { ...base, bias: obs.bias, cv: obs.cv, observedTotal: shown(a.observedTotal), tierMet };
-  if (!a.inUse.total.ok) return { ...common, sigma: '', rule: '', controls: '', runs: '', detection: '', falseRejection: '' };
+  if (!a.inUse.total.ok) return { ...common, sigma: '', rule: '', controls: '', runs: '', detection: '', falseRejection: '', runSize: '' };
   const sigma = shown(a.inUse.sigma);
-  if (!a.plan.ok) return { ...common, sigma, rule: explain(a.plan), controls: '', runs: '', detection: '', falseRejection: '' };
+  if (!a.plan.ok) return { ...common, sigma, rule: explain(a.plan), controls: '', runs: '', detection: '', falseRejection: '', runSize: '' };
   const p = a.plan.value;
   return {
     ...common,
@@ -58,15 +59,17 @@ export function summaryRow(r: VariationRow, tier: Tier, z: number, obs: Observed
     runs: p.runs,
     detection: p.detection,
     falseRejection: p.falseRejectionPerRun,
+    runSize: p.runSize,
   };
 }
 
-export function summaryHeader(table: VariationTable, sheetTier: Tier, z: number, date: string): string[] {
+/** `tierFrom`: where the sheet tier came from, in words (the pane's choice, or a sheet's tier cell). */
+export function summaryHeader(table: VariationTable, sheetTier: Tier, z: number, date: string, tierFrom = 'the sheet tier chosen in Fill'): string[] {
   const lines = ['Leeway — summary: tier met, sigma metric and QC plan by analyte'];
   if (table.demo) lines.push(DEMO_MARKER);
   lines.push(
     `Table: ${table.name} (${table.origin || 'origin not recorded'}, imported ${table.importedAt.slice(0, 10)})`,
-    `Sheet tier: ${sheetTier} (an analyte's own tier where one was chosen) · z = ${z} · QC plan: QC.PLAN, detection ≥ 0.90, false rejection per run ≤ 0.05, critical shift at z = 1.65`,
+    `Sheet tier: ${sheetTier}, from ${tierFrom} (an analyte's own tier where one was chosen) · z = ${z} · QC plan: QC.PLAN, detection ≥ 0.90, false rejection per run ≤ 0.05, critical shift at z = 1.65; run size: QC.RUNSIZE of the plan, patient results between QC events keeping the expected unreliable final results ≤ 1`,
     `Made on ${date} by Leeway ${VERSION} from the figures in the task pane (values, not formulas)`,
     `Caution: ${CAUTION}`,
   );
@@ -98,6 +101,7 @@ export function summaryCells(r: SummaryRow): Array<number | string> {
     r.runs,
     r.detection,
     r.falseRejection,
+    r.runSize,
   ];
   row.push(notes.join('; '));
   return row;

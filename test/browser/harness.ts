@@ -15,7 +15,6 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 export const CHROMIUM = '/usr/bin/chromium';
 export const ROOT = path.resolve(__dirname, '..', '..');
 export const DIST = path.join(ROOT, 'dist', 'addin');
-export const DOCS = path.join(ROOT, 'docs');
 
 export const hasChromium = fs.existsSync(CHROMIUM);
 
@@ -109,13 +108,55 @@ export interface PaneOptions {
   readonly height?: number;
   /** Leave office.js alone and install no fake host (the pane as a plain browser sees it). */
   readonly realOffice?: boolean;
+  /** Force every text of the pane into this installed font family (appended to the pane's own stylesheet). */
+  readonly fontFamily?: string;
+}
+
+/** CSS that puts every text of the pane, SVG charts included, in one font family. */
+export function fontOverride(family: string): string {
+  const f = `"${family.replace(/["\\]/g, '')}"`;
+  return `\n:root { --font: ${f} !important; }\nhtml, body, button, input, select, textarea, svg, svg text { font-family: ${f} !important; }\n`;
+}
+
+/** The sans-serif families of this list that fontconfig reports installed (none when fc-list is absent). */
+export function installedSansFamilies(candidates: readonly string[] = ['DejaVu Sans', 'Liberation Sans', 'Nimbus Sans']): string[] {
+  let listed: string;
+  try {
+    listed = execFileSync('fc-list', [':', 'family'], { encoding: 'utf8' });
+  } catch {
+    return [];
+  }
+  const names = new Set(listed.split('\n').flatMap((l) => l.split(',')).map((n) => n.trim()));
+  return candidates.filter((c) => names.has(c));
+}
+
+/** A Content-Security-Policy violation as the page reported it. */
+export interface CspViolation {
+  readonly directive: string;
+  readonly blocked: string;
+  /** The script that caused it ("" when the browser does not say). */
+  readonly source: string;
+}
+
+/** Collects the page's CSP violations in window.leewayCsp (installed before any script runs). */
+const CSP_COLLECTOR = `window.leewayCsp = [];
+document.addEventListener('securitypolicyviolation', function (e) {
+  window.leewayCsp.push({ directive: e.violatedDirective, blocked: e.blockedURI, source: e.sourceFile || '' });
+});`;
+
+/** The CSP violations the page has reported so far. */
+export function cspViolations(page: Page): Promise<CspViolation[]> {
+  return page.evaluate(() => (window as unknown as { leewayCsp: CspViolation[] }).leewayCsp);
 }
 
 /** Opens the pane in a fresh context (fresh storage), Office simulated; resolves once it is ready. */
-export async function openPane(browser: Browser, base: string, o: PaneOptions = {}): Promise<{ context: BrowserContext; page: Page; errors: string[] }> {
+export async function openPane(browser: Browser, base: string, o: PaneOptions = {}): Promise<{ context: BrowserContext; page: Page; errors: string[]; requests: string[] }> {
   const context = await browser.newContext({ viewport: { width: o.width ?? 320, height: o.height ?? 720 }, deviceScaleFactor: 1 });
   const page = await context.newPage();
   const errors: string[] = [];
+  const requests: string[] = [];
+  page.on('request', (r) => requests.push(r.url()));
+  await page.addInitScript({ content: CSP_COLLECTOR });
   page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`));
   page.on('console', (m) => {
     if (m.type() === 'error') errors.push(`console: ${m.text()}`);
@@ -125,18 +166,25 @@ export async function openPane(browser: Browser, base: string, o: PaneOptions = 
     errors.push(`blocked request: ${route.request().url()}`);
     void route.abort();
   });
+  if (o.fontFamily) {
+    const css = fs.readFileSync(path.join(DIST, 'assets', 'taskpane.css'), 'utf8') + fontOverride(o.fontFamily);
+    await page.route('**/assets/taskpane.css', (route) => route.fulfill({ status: 200, contentType: 'text/css; charset=utf-8', body: css }));
+  }
   if (!o.realOffice) {
     await page.route('**/assets/office-js/office.js', (route) => route.fulfill({ status: 200, contentType: 'application/javascript', body: FAKE_OFFICE_JS }));
     await page.addInitScript({ content: FAKE_HOST });
   }
   await page.goto(`${base}/taskpane.html`);
   await page.waitForSelector('body[data-ready="true"]', { timeout: 20000 });
-  return { context, page, errors };
+  return { context, page, errors, requests };
 }
 
-export function docsPath(name: string): string {
-  fs.mkdirSync(DOCS, { recursive: true });
-  return path.join(DOCS, name);
+export const SCREENSHOTS = path.join(ROOT, 'out', 'screenshots');
+
+/** Where a test's screenshot goes: out/screenshots (never a tracked file). */
+export function screenshotPath(name: string): string {
+  fs.mkdirSync(SCREENSHOTS, { recursive: true });
+  return path.join(SCREENSHOTS, name);
 }
 
 /**

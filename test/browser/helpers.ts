@@ -2,7 +2,7 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import type { Page } from 'playwright-core';
-import { docsPath } from './harness';
+import { screenshotPath } from './harness';
 
 export const TABLES = path.join(__dirname, '..', 'fixtures', 'tables');
 export const FIXTURES = path.join(__dirname, 'fixtures');
@@ -12,7 +12,12 @@ export interface LogEntry {
   args: unknown;
 }
 
-export async function view(page: Page, id: 'library' | 'fill' | 'compare' | 'qc' | 'summary'): Promise<void> {
+export type ViewName = 'library' | 'fill' | 'whatif' | 'verification' | 'qc' | 'review' | 'summary';
+
+/** Shows a view as a user does: its step in the first row of tabs, then the view in the second. */
+export async function view(page: Page, id: ViewName): Promise<void> {
+  const step = await page.getAttribute(`#tab-${id}`, 'data-step');
+  await page.click(`#step-${step}`);
   await page.click(`#tab-${id}`);
   await page.waitForSelector(`#panel-${id}:not([hidden])`);
 }
@@ -77,11 +82,11 @@ export async function setActive(
   }, o);
 }
 
-/** A full-height screenshot at the pane's width (the sticky caution footer lands at the bottom). */
+/** A full-height screenshot at the pane's width into out/screenshots (the sticky caution footer lands at the bottom). */
 export async function screenshot(page: Page, file: string, width = 320): Promise<void> {
   const height = await page.evaluate(() => Math.ceil(document.documentElement.scrollHeight));
   await page.setViewportSize({ width, height: Math.max(480, Math.min(height, 4000)) });
-  await page.screenshot({ path: docsPath(file) });
+  await page.screenshot({ path: screenshotPath(file) });
   await page.setViewportSize({ width, height: 720 });
 }
 

@@ -2,14 +2,15 @@
  * Task pane in Chromium, QC and Summary views: the plan shown equals QC.PLAN (through the same
  * registry Excel evaluates); the power curves are drawn from the QC engine's powerCurve (points
  * compared with the engine and with the chart's own scales); the critical shift is marked; the
- * view redraws within a frame once its curves are cached; the summary sheet request carries one
+ * run size of the plan and of each candidate is QC.RUNSIZE; the risk chart is QC.RISK's curve; the summary sheet request carries one
  * row per analyte with the engine's figures, the provenance and the caution.
  */
 import type { Page } from 'playwright-core';
 import { describeInBrowser, usePane } from './harness';
 import { view, lastCall, screenshot } from './helpers';
 import { evaluate } from '../../src/registry';
-import { planQc } from '../../src/engine/qc/plan';
+import { planQc, QC_CANDIDATES } from '../../src/engine/qc/plan';
+import { maximumRisk, expectedUnreliable } from '../../src/engine/qc/risk';
 import { powerCurve, shiftAxis } from '../../src/engine/qc/power';
 import { curveScales, at } from '../../src/taskpane/charts';
 import { axisMax } from '../../src/taskpane/views/qc';
@@ -110,24 +111,85 @@ describeInBrowser('task pane: QC design and summary', () => {
     await context.close();
   });
 
-  test('once its curves are cached the QC view redraws within a frame', async () => {
+  test('the run size of the plan and of every candidate shown equals QC.RUNSIZE', async () => {
+    const { context, page, errors } = await open();
+    await view(page, 'qc');
+    for (const [allowable, bias, cv] of [
+      [10, 1, 2],
+      [6.43, -0.5, 1.1],
+      [20, 2, 6],
+    ]) {
+      await typeFigures(page, allowable, bias, cv);
+      const plan = planQc(allowable, bias, cv);
+      expect(Number(await page.getAttribute('#qc-plan dl.plan-facts', 'data-run-size'))).toBe(evaluate('QC.RUNSIZE', [allowable, bias, cv, plan.rule, plan.n])[0][0]);
+      const legend = await page.$$eval('#qc-legend li[data-run-size]', (els) => els.map((e) => ({ text: e.textContent ?? '', m: e.getAttribute('data-run-size') })));
+      expect(legend.length).toBeGreaterThanOrEqual(4);
+      for (const item of legend) {
+        const c = QC_CANDIDATES.find((x) => item.text.startsWith(`${x.rule}, n=${x.n}${x.runs > 1 ? `, ${x.runs} runs` : ''}`) && !item.text.startsWith(`${x.rule}/`))!;
+        expect(c).toBeDefined();
+        const want = evaluate('QC.RUNSIZE', [allowable, bias, cv, c.rule, c.n])[0][0] as number;
+        expect({ c, m: Number(item.m) }).toEqual({ c, m: want });
+        expect(item.text).toContain(`run size ${want.toLocaleString('en-US')}`);
+      }
+    }
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  test('the risk chart: the engine’s E(Nuf) curve at the run size typed, its maximum equal to QC.RISK, and whether it exceeds 1', async () => {
+    const { context, page, errors } = await open();
+    await view(page, 'qc');
+    await typeFigures(page, 10, 1, 2);
+    const plan = planQc(10, 1, 2);
+    // Empty: the plan's own run size, whose risk is at most 1 by construction.
+    const atPlan = await page.$eval('#qc-risk-chart g.risk-peak', (e) => ({ max: Number(e.getAttribute('data-max-risk')), m: Number(e.getAttribute('data-run-size')) }));
+    expect(atPlan.m).toBe(plan.runSize);
+    expect(close(atPlan.max, evaluate('QC.RISK', [10, 1, 2, plan.rule, plan.n, plan.runSize])[0][0] as number)).toBe(true);
+    expect(atPlan.max).toBeLessThanOrEqual(1);
+    expect(await page.getAttribute('#qc-risk-verdict', 'data-exceeds')).toBe('false');
+    // A longer run than the plan's carries more risk: four times the run size, four times the risk.
+    const m = plan.runSize * 4;
+    await page.fill('#qc-runsize', String(m));
+    await page.waitForSelector(`#qc-risk-chart g.risk-peak[data-run-size="${m}"]`);
+    const peak = await page.$eval('#qc-risk-chart g.risk-peak', (e) => ({ max: Number(e.getAttribute('data-max-risk')), argmax: Number(e.getAttribute('data-argmax')) }));
+    const engine = maximumRisk(10, 1, 2, plan.rule, plan.n, m);
+    expect(close(peak.max, engine.maxRisk)).toBe(true);
+    expect(close(peak.argmax, engine.argmax)).toBe(true);
+    expect(close(peak.max, evaluate('QC.RISK', [10, 1, 2, plan.rule, plan.n, m])[0][0] as number)).toBe(true);
+    expect(await page.getAttribute('#qc-risk-verdict', 'data-exceeds')).toBe(String(engine.maxRisk > 1));
+    expect(await page.textContent('#qc-risk-verdict')).toMatch(engine.maxRisk > 1 ? /more than 1/ : /not more than 1/);
+    // The curve's points are the engine's E(Nuf) at each shift.
+    const curve = await page.$eval('#qc-risk-chart path.risk-curve', (e) => ({ xs: e.getAttribute('data-shifts')!.split(',').map(Number), ys: e.getAttribute('data-risks')!.split(',').map(Number) }));
+    expect(curve.xs.length).toBeGreaterThan(40);
+    for (const i of [0, 5, 20, curve.xs.length - 1]) expect(close(curve.ys[i], expectedUnreliable(10, 1, 2, plan.rule, plan.n, m, curve.xs[i]))).toBe(true);
+    // The text equivalent names the procedure, the run size and the maximum.
+    const desc = await page.textContent('#qc-risk-chart desc');
+    expect(desc).toContain(`${plan.runSize * 4} patient results between QC events`);
+    // A run size that is not a whole number is refused, not guessed.
+    await page.fill('#qc-runsize', '12.5');
+    expect(await page.textContent('#qc-risk-verdict')).toMatch(/^Run size: “12.5” is not a whole number/);
+    await page.fill('#qc-runsize', '');
+    await screenshot(page, 'pane-qc-risk.png');
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  test('a procedure other than the plan can be shown on the risk chart', async () => {
     const { context, page } = await open();
     await view(page, 'qc');
     await typeFigures(page, 10, 1, 2);
-    // Same axis (critical shift 2.85 → 4 SD), different plan inputs: every curve is cached.
-    const times: number[] = [];
-    for (const bias of ['1.1', '0.9', '1.05', '1']) {
-      await page.fill('#qc-bias', bias);
-      times.push(Number(await page.getAttribute('#qc-curves', 'data-draw-ms')));
-    }
-    console.log(`QC view redraw with cached curves: ${times.map((t) => t.toFixed(1)).join(', ')} ms`);
-    expect(Math.min(...times)).toBeLessThan(16.7);
+    await page.selectOption('#qc-risk-rule', '1-3s|2|1');
+    await page.fill('#qc-runsize', '200');
+    await page.waitForSelector('#qc-risk-chart g.risk-peak[data-run-size="200"]');
+    const max = Number(await page.getAttribute('#qc-risk-chart g.risk-peak', 'data-max-risk'));
+    expect(close(max, evaluate('QC.RISK', [10, 1, 2, '1-3s', 2, 200])[0][0] as number)).toBe(true);
+    expect(await page.textContent('#qc-risk-chart .procedure')).toBe('1-3s, n=2 · run size 200');
     await context.close();
   });
 
   test('from an analyte: its tier’s allowable total error and its observed figures feed the plan', async () => {
     const { context, page } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#use-demo-observed');
     await view(page, 'qc');
     const r = demoTable().rows[0];
@@ -144,7 +206,7 @@ describeInBrowser('task pane: QC design and summary', () => {
 
   test('the summary sheet request: one row per analyte with the engine’s figures, the provenance and the caution', async () => {
     const { context, page } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#use-demo-observed');
     await view(page, 'summary');
     await page.waitForSelector('#summary-table');

@@ -105,7 +105,7 @@ describe('summary sheet (office-addin-mock)', () => {
     const out = await writeSummarySheet(m.context, req);
     expect(m.added).toEqual(['Summary']);
     const headerRow = req.header.length + 2;
-    expect(out.tableAddress).toBe(`A${headerRow}:N${headerRow + 5}`);
+    expect(out.tableAddress).toBe(`A${headerRow}:O${headerRow + 5}`);
     const table = m.ranges.find((r) => r.address === out.tableAddress)!;
     const values = table.mock.values as Array<Array<string | number>>;
     expect(values).toHaveLength(1 + 5);
@@ -114,7 +114,14 @@ describe('summary sheet (office-addin-mock)', () => {
     expect(values[1][0]).toBe('Analyte 0 (serum)');
     // A rule such as 1-3s/2-2s/R-4s would be read by Excel as a date or a number: it goes in as text.
     expect(values[1][8]).toBe(`'${req.rows[0].rule}`);
-    // The header lines carry the provenance and the caution (SPEC.md section 9).
+    // The run size of the plan (QC.RUNSIZE) has its own column, as a number formatted with thousands.
+    const runSizeCol = SUMMARY_HEADERS.indexOf('Run size');
+    expect(runSizeCol).toBe(13);
+    expect(values[1][runSizeCol]).toBe(req.rows[0].runSize);
+    expect(typeof req.rows[0].runSize).toBe('number');
+    const formats = m.ranges.find((r) => r.address === `N${headerRow + 1}:N${headerRow + 5}`)!;
+    expect(formats.mock.numberFormat).toEqual(Array.from({ length: 5 }, () => ['#,##0']));
+    // The header lines carry the provenance and the caution.
     const top = m.ranges.find((r) => r.address === `A1:A${req.header.length}`)!;
     const lines = (top.mock.values as string[][]).map((l) => l[0]);
     expect(lines.some((l) => l.includes(CAUTION))).toBe(true);

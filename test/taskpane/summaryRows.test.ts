@@ -31,15 +31,16 @@ describe('summary rows', () => {
       expect(s.tierMet).toBe(one('PERF.TIER', cvi, cvg, bias, cv, 1.65, 'total'));
       const plan = evaluate('QC.PLAN', [tea, bias, cv]);
       expect(plan[0]).toEqual(['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met', 'Run size']);
-      const [rule, n, runs, det, fr, met] = plan[1];
+      const [rule, n, runs, det, fr, met, runSize] = plan[1];
       expect(s.rule).toBe(met === 'yes' || met === true || met === 'TRUE' ? rule : `${rule} (target not met)`);
-      expect([s.controls, s.runs, s.detection, s.falseRejection]).toEqual([n, runs, det, fr]);
+      expect([s.controls, s.runs, s.detection, s.falseRejection, s.runSize]).toEqual([n, runs, det, fr, runSize]);
+      expect(s.runSize).toBe(one('QC.RUNSIZE', tea, bias, cv, rule as string, n as number));
     }
   });
 
   test('without observed data the row says so and has no sigma or plan', () => {
     const s = summaryRow(row(5, 6), 'desirable', 1.65, undefined);
-    expect(s).toMatchObject({ sigma: '', tierMet: 'no observed data', rule: '' });
+    expect(s).toMatchObject({ sigma: '', tierMet: 'no observed data', rule: '', runSize: '' });
     expect(summaryCells(s)).toHaveLength(SUMMARY_HEADERS.length);
   });
 

@@ -153,38 +153,108 @@ export function assertWritable(plan: FillPlan): void {
   if (plan.cells.length === 0 && !plan.blockSheet?.cells.length) throw new FillWriteError('empty-plan', 'the plan has no cells to write');
 }
 
+/** The used range (or `address`) of a sheet as a snapshot, in two syncs. */
+async function readUsedIn(context: Excel.RequestContext, sheetName: string, address: string | undefined, options: SheetIOOptions): Promise<SheetSnapshot> {
+  const sheet = context.workbook.worksheets.getItem(sheetName);
+  const range = address ? sheet.getRange(address) : sheet.getUsedRangeOrNullObject(true);
+  range.load(['isNullObject', 'rowIndex', 'columnIndex', 'rowCount', 'columnCount']);
+  await context.sync();
+  if (range.isNullObject) return { name: sheetName, origin: { row: 1, col: 1 }, cells: [] };
+  // A used range far larger than any template (a stray value at ZZ200000) is read from its first rows only.
+  const rows = Math.min(range.rowCount, Math.max(1, Math.floor(READ_CELL_LIMIT / Math.max(1, range.columnCount))));
+  const part = rows < range.rowCount ? range.getResizedRange(rows - range.rowCount, 0) : range;
+  part.load('formulas');
+  const merged = options.layout ? part.getMergedAreasOrNullObject() : undefined;
+  merged?.load(['isNullObject', 'areas/items/rowIndex', 'areas/items/columnIndex', 'areas/items/rowCount', 'areas/items/columnCount']);
+  const widths = options.layout ? Array.from({ length: Math.min(WIDTH_COLUMNS, range.columnIndex + range.columnCount) }, (_, i) => sheet.getCell(0, i).format) : [];
+  for (const w of widths) w.load('columnWidth');
+  await context.sync();
+  const columnWidths: Record<number, number> = {};
+  widths.forEach((w, i) => (columnWidths[i + 1] = w.columnWidth / POINTS_PER_CHARACTER));
+  return {
+    name: sheetName,
+    origin: { row: range.rowIndex + 1, col: range.columnIndex + 1 },
+    cells: (part.formulas as unknown[][]).map((r) => r.map(fromExcel)),
+    ...(merged && !merged.isNullObject ? { merges: merged.areas.items.map((a) => ({ top: a.rowIndex + 1, left: a.columnIndex + 1, bottom: a.rowIndex + a.rowCount, right: a.columnIndex + a.columnCount })) } : {}),
+    ...(widths.length ? { columnWidths } : {}),
+    ...(rows < range.rowCount ? { readThrough: range.rowIndex + rows } : {}),
+  };
+}
+
+/** Sync 1 of a write: refuses when a planned cell changed since planning (unless confirmed). */
+async function assertUnchanged(context: Excel.RequestContext, sheet: Excel.Worksheet, plan: FillPlan, confirmed: ReadonlySet<string>): Promise<void> {
+  if (!plan.cells.length) return;
+  const b = bounds(plan.cells);
+  const probe = sheet.getRange(a1Range({ row: b.top, col: b.left }, { row: b.bottom, col: b.right }));
+  probe.load('formulas');
+  await context.sync();
+  const now = probe.formulas as unknown[][];
+  const changed: string[] = [];
+  for (const c of plan.cells) {
+    const v = fromExcel(now[c.row - b.top]?.[c.col - b.left]);
+    if (v !== null && !confirmed.has(c.address)) changed.push(c.address);
+  }
+  if (changed.length) {
+    throw new FillWriteError('changed', `cells changed since the fill was planned (${changed.slice(0, 5).join(', ')}${changed.length > 5 ? ', …' : ''}): nothing was written; plan the fill again`);
+  }
+}
+
+function applyStyle(range: Excel.Range, role: PlannedCell['role']): void {
+  const style = ROLE_STYLES[role];
+  if (!style) return;
+  if (style.bold) range.format.font.bold = true;
+  if (style.italic) range.format.font.italic = true;
+  if (style.size) range.format.font.size = style.size;
+  if (style.color) range.format.font.color = style.color;
+  if (style.fill) range.format.fill.color = style.fill;
+  if (style.wrap) range.format.wrapText = true;
+  if (style.bottomBorder) range.format.borders.getItem('EdgeBottom').style = 'Continuous';
+}
+
+/** Queues the cells of one sheet (one range per column run), their notes and column widths. */
+function queueCells(context: Excel.RequestContext, target: Excel.Worksheet, name: string, cells: readonly PlannedCell[], widths: Readonly<Record<number, number>>, notes: NonNullable<SheetIOOptions['notes']>): void {
+  for (const run of columnRuns(cells)) {
+    const first = run.cells[0]!;
+    const range = target.getRange(a1Range({ row: run.top, col: run.col }, { row: run.top + run.cells.length - 1, col: run.col }));
+    if (first.format !== undefined) range.numberFormat = run.cells.map((c) => [c ? c.format ?? 'General' : null]) as string[][];
+    range.formulas = run.cells.map((c) => [c ? excelInput(c.content) : null]) as (string | number)[][];
+    applyStyle(range, first.role);
+  }
+  if (notes !== 'none') {
+    for (const c of cells) {
+      if (!c.note) continue;
+      if (notes === 'notes') target.notes.add(c.address, c.note);
+      else context.workbook.comments.add(`${name}!${c.address}`, c.note);
+    }
+  }
+  for (const [col, chars] of Object.entries(widths)) {
+    const letter = columnLetters(Number(col));
+    target.getRange(`${letter}:${letter}`).format.columnWidth = chars * POINTS_PER_CHARACTER;
+  }
+}
+
+/** A writable plan in two syncs: the check that nothing changed, then everything else. */
+async function writeIn(context: Excel.RequestContext, plan: FillPlan, notes: NonNullable<SheetIOOptions['notes']>): Promise<WriteReport> {
+  const sheet = plan.target === 'new-sheet' ? context.workbook.worksheets.add(plan.sheetName) : context.workbook.worksheets.getItem(plan.sheetName);
+  const confirmed = new Set(plan.overwrite ? plan.conflicts.map((c) => c.address) : []);
+  await assertUnchanged(context, sheet, plan, confirmed);
+  // Sync 2: everything else; the provenance block on a sheet of its own when the plan says so.
+  context.application.suspendApiCalculationUntilNextSync();
+  const blockSheet = plan.blockSheet ? context.workbook.worksheets.add(plan.blockSheet.name) : undefined;
+  queueCells(context, sheet, plan.sheetName, plan.cells, plan.columnWidths, notes);
+  if (blockSheet && plan.blockSheet) queueCells(context, blockSheet, plan.blockSheet.name, plan.blockSheet.cells, plan.blockSheet.columnWidths, notes);
+  const tierCell = (blockSheet ?? sheet).getRange(plan.tierCell.replace(/^.*!/, '').replace(/\$/g, ''));
+  tierCell.dataValidation.clear();
+  tierCell.dataValidation.rule = { list: { inCellDropDown: true, source: TIER_CHOICES } };
+  if (plan.target === 'new-sheet') sheet.activate();
+  await context.sync();
+  return { sheetName: plan.sheetName, cellsWritten: plan.cells.length + (plan.blockSheet?.cells.length ?? 0), overwritten: [...confirmed] };
+}
+
 export function createSheetIO(run: ExcelRun, options: SheetIOOptions = {}): SheetIO {
   const notes = options.notes ?? 'notes';
   return {
-    async readUsed(sheetName, address) {
-      return run(async (context) => {
-        const sheet = context.workbook.worksheets.getItem(sheetName);
-        const range = address ? sheet.getRange(address) : sheet.getUsedRangeOrNullObject(true);
-        range.load(['isNullObject', 'rowIndex', 'columnIndex', 'rowCount', 'columnCount']);
-        await context.sync();
-        if (range.isNullObject) return { name: sheetName, origin: { row: 1, col: 1 }, cells: [] };
-        // A used range far larger than any template (a stray value at ZZ200000) is read from its first rows only.
-        const rows = Math.min(range.rowCount, Math.max(1, Math.floor(READ_CELL_LIMIT / Math.max(1, range.columnCount))));
-        const part = rows < range.rowCount ? range.getResizedRange(rows - range.rowCount, 0) : range;
-        part.load('formulas');
-        const merged = options.layout ? part.getMergedAreasOrNullObject() : undefined;
-        merged?.load(['isNullObject', 'areas/items/rowIndex', 'areas/items/columnIndex', 'areas/items/rowCount', 'areas/items/columnCount']);
-        const widths = options.layout ? Array.from({ length: Math.min(WIDTH_COLUMNS, range.columnIndex + range.columnCount) }, (_, i) => sheet.getCell(0, i).format) : [];
-        for (const w of widths) w.load('columnWidth');
-        await context.sync();
-        const columnWidths: Record<number, number> = {};
-        widths.forEach((w, i) => (columnWidths[i + 1] = w.columnWidth / POINTS_PER_CHARACTER));
-        return {
-          name: sheetName,
-          origin: { row: range.rowIndex + 1, col: range.columnIndex + 1 },
-          cells: (part.formulas as unknown[][]).map((r) => r.map(fromExcel)),
-          ...(merged && !merged.isNullObject ? { merges: merged.areas.items.map((a) => ({ top: a.rowIndex + 1, left: a.columnIndex + 1, bottom: a.rowIndex + a.rowCount, right: a.columnIndex + a.columnCount })) } : {}),
-          ...(widths.length ? { columnWidths } : {}),
-          ...(rows < range.rowCount ? { readThrough: range.rowIndex + rows } : {}),
-        };
-      });
-    },
-
+    readUsed: (sheetName, address) => run((context) => readUsedIn(context, sheetName, address, options)),
     async readSelection() {
       return run(async (context) => {
         const range = context.workbook.getSelectedRange();
@@ -199,7 +269,6 @@ export function createSheetIO(run: ExcelRun, options: SheetIOOptions = {}): Shee
         };
       });
     },
-
     async sheetNames() {
       return run(async (context) => {
         const sheets = context.workbook.worksheets;
@@ -208,70 +277,9 @@ export function createSheetIO(run: ExcelRun, options: SheetIOOptions = {}): Shee
         return sheets.items.map((s) => s.name);
       });
     },
-
     async write(plan) {
       assertWritable(plan);
-      return run(async (context) => {
-        const sheet = plan.target === 'new-sheet' ? context.workbook.worksheets.add(plan.sheetName) : context.workbook.worksheets.getItem(plan.sheetName);
-        // Sync 1: read the rectangle the plan covers, to find cells changed since planning.
-        const confirmed = new Set(plan.overwrite ? plan.conflicts.map((c) => c.address) : []);
-        if (plan.cells.length) {
-          const b = bounds(plan.cells);
-          const probe = sheet.getRange(a1Range({ row: b.top, col: b.left }, { row: b.bottom, col: b.right }));
-          probe.load('formulas');
-          await context.sync();
-          const now = probe.formulas as unknown[][];
-          const changed: string[] = [];
-          for (const c of plan.cells) {
-            const v = fromExcel(now[c.row - b.top]?.[c.col - b.left]);
-            if (v !== null && !confirmed.has(c.address)) changed.push(c.address);
-          }
-          if (changed.length) {
-            throw new FillWriteError('changed', `cells changed since the fill was planned (${changed.slice(0, 5).join(', ')}${changed.length > 5 ? ', …' : ''}): nothing was written; plan the fill again`);
-          }
-        }
-
-        // Sync 2: everything else; the provenance block on a sheet of its own when the plan says so.
-        context.application.suspendApiCalculationUntilNextSync();
-        const blockSheet = plan.blockSheet ? context.workbook.worksheets.add(plan.blockSheet.name) : undefined;
-        const writeCells = (target: Excel.Worksheet, name: string, cells: readonly PlannedCell[], widths: Readonly<Record<number, number>>): void => {
-          for (const run of columnRuns(cells)) {
-            const first = run.cells[0]!;
-            const range = target.getRange(a1Range({ row: run.top, col: run.col }, { row: run.top + run.cells.length - 1, col: run.col }));
-            if (first.format !== undefined) range.numberFormat = run.cells.map((c) => [c ? c.format ?? 'General' : null]) as string[][];
-            range.formulas = run.cells.map((c) => [c ? excelInput(c.content) : null]) as (string | number)[][];
-            const style = ROLE_STYLES[first.role];
-            if (style) {
-              if (style.bold) range.format.font.bold = true;
-              if (style.italic) range.format.font.italic = true;
-              if (style.size) range.format.font.size = style.size;
-              if (style.color) range.format.font.color = style.color;
-              if (style.fill) range.format.fill.color = style.fill;
-              if (style.wrap) range.format.wrapText = true;
-              if (style.bottomBorder) range.format.borders.getItem('EdgeBottom').style = 'Continuous';
-            }
-          }
-          if (notes !== 'none') {
-            for (const c of cells) {
-              if (!c.note) continue;
-              if (notes === 'notes') target.notes.add(c.address, c.note);
-              else context.workbook.comments.add(`${name}!${c.address}`, c.note);
-            }
-          }
-          for (const [col, chars] of Object.entries(widths)) {
-            const letter = columnLetters(Number(col));
-            target.getRange(`${letter}:${letter}`).format.columnWidth = chars * POINTS_PER_CHARACTER;
-          }
-        };
-        writeCells(sheet, plan.sheetName, plan.cells, plan.columnWidths);
-        if (blockSheet && plan.blockSheet) writeCells(blockSheet, plan.blockSheet.name, plan.blockSheet.cells, plan.blockSheet.columnWidths);
-        const tierCell = (blockSheet ?? sheet).getRange(plan.tierCell.replace(/^.*!/, '').replace(/\$/g, ''));
-        tierCell.dataValidation.clear();
-        tierCell.dataValidation.rule = { list: { inCellDropDown: true, source: TIER_CHOICES } };
-        if (plan.target === 'new-sheet') sheet.activate();
-        await context.sync();
-        return { sheetName: plan.sheetName, cellsWritten: plan.cells.length + (plan.blockSheet?.cells.length ?? 0), overwritten: [...confirmed] };
-      });
+      return run((context) => writeIn(context, plan, notes));
     },
   };
 }
