@@ -10,6 +10,7 @@ import { VERSION } from '../engine/version';
 import { fillCommand, FILL_USAGE } from './fill';
 import { checkCommand, CHECK_USAGE } from './check';
 import { demoCommand, DEMO_USAGE } from './demo';
+import { reviewCommand, REVIEW_USAGE } from './review';
 
 const USAGE = `leeway ${VERSION} — laboratory quality specifications, performance, QC design and uncertainty
 
@@ -21,6 +22,7 @@ Usage:
 ${FILL_USAGE}
 ${CHECK_USAGE}
 ${DEMO_USAGE}
+${REVIEW_USAGE}
   leeway help                      this text
 
 An ARG is a number, a word, or a JSON array for a range ([1,2,3] is a column, [[1,2],[3,4]] rows);
@@ -114,6 +116,7 @@ export const COMMANDS: Record<string, Command> = {
   fill: fillCommand,
   check: checkCommand,
   demo: demoCommand,
+  review: reviewCommand,
 };
 
 export async function main(argv: string[], io: Io = stdio): Promise<number> {
