@@ -37,7 +37,8 @@ import type { AnalyteReview, ReviewRequest } from './model';
 import type { Provenance, ReviewContext, ReviewSheetWriter } from './context';
 import { writeSummarySheet, SUMMARY_SHEET } from './summarySheet';
 import { writeResultsSheet, RESULTS_SHEET } from './resultsSheet';
-import { writeMaterialSheet } from './materialSheet';
+import { startChart, writeMaterialSheet } from './materialSheet';
+import type { PendingChart } from './materialSheet';
 import { sheetNames } from './names';
 
 export type { ReviewSheetWriter, ReviewContext } from './context';
@@ -50,6 +51,9 @@ export const REVIEW_USAGE = `  leeway review --results R.csv --out OUT.xlsx [--r
                                    results with their flags) and the results as read`;
 
 export const DEMO_REVIEW_FILE = 'leeway-review-demo.xlsx';
+
+/** Charts being rendered ahead of the sheet being written. */
+const CHARTS_AHEAD = 8;
 
 export interface ReviewBuild {
   readonly file: ControlResultsFile;
@@ -83,13 +87,25 @@ export async function buildReviewWorkbook(b: ReviewBuild): Promise<{ wb: ExcelJS
   const request: ReviewRequest = { file: b.file, table: b.table, tier: b.tier, rule: b.rule, labRunSize: b.labRunSize };
   const analytes = reviewAll(request);
   const names = sheetNames(analytes.map((a) => a.materials.map((m) => `${a.analyte} ${m.level.level}`)), [SUMMARY_SHEET, RESULTS_SHEET]);
-  writeSummarySheet(ctx, analytes, (a, m) => names[a][m], b.labRunSize);
+  writeSummarySheet(ctx, analytes, b.labRunSize);
   const blocks = writeResultsSheet(ctx, analytes);
   const resultsSheet = wb.getWorksheet(RESULTS_SHEET);
-  analytes.forEach((a, ai) => {
-    a.materials.forEach((m, mi) => writeMaterialSheet(ctx, names[ai][mi], a, m, blocks[ai]));
-    b.progress?.update(ai + 1, analytes.length);
-  });
+  // Charts render on worker threads, a few sheets ahead of the sheet that places each.
+  const charts = analytes.flatMap((a, ai) => a.materials.map((m, mi) => ({ a, ai, m, mi })));
+  const pending: PendingChart[] = [];
+  const start = (k: number): void => {
+    if (k < charts.length) pending[k] = startChart(charts[k].a, charts[k].m);
+  };
+  for (let k = 0; k < CHARTS_AHEAD; k++) start(k);
+  for (let k = 0; k < charts.length; k++) {
+    start(k + CHARTS_AHEAD);
+    const { a, ai, m, mi } = charts[k];
+    await writeMaterialSheet(ctx, names[ai][mi], a, m, blocks[ai], pending[k]);
+    delete pending[k];
+    b.progress?.update(k + 1, charts.length);
+    // The renderer's native memory is released by finalizers that run between turns of the event loop.
+    await new Promise((resolve) => setImmediate(resolve));
+  }
   // The results as read go after the analytes' sheets.
   // exceljs orders the sheets it writes by orderNo (set when a sheet is added; not in its types).
   const order = (w: ExcelJS.Worksheet): { orderNo: number } => w as unknown as { orderNo: number };

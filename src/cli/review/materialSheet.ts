@@ -8,8 +8,7 @@
 import type ExcelJS from 'exceljs';
 import type { DocumentSheet } from '../document';
 import { storedFormula } from '../xlsx';
-import { svgToPng } from '../picture';
-import { controlChartSvg, chartSeries } from '../../charts/controlChart';
+import { chartSeries } from '../../charts/controlChart';
 import type { ChartPoint } from '../../charts/controlChart';
 import { labelKey } from '../../engine/labels';
 import type { OutCell } from '../../registry/types';
@@ -21,16 +20,21 @@ import type { ReviewContext } from './context';
 import { reviewSheet } from './context';
 import { RESULTS_COLUMNS, blockRange } from './resultsSheet';
 import type { Block } from './resultsSheet';
+import { renderChart } from './pictures';
 
 /** Most points a chart draws: beyond it, every flagged result and an even spread of the others. */
 export const MAX_CHART_POINTS = 400;
-/** The chart's drawing width in pixels, and its width on the sheet (fits a portrait page at 100 %). */
-export const CHART_WIDTH = 640;
-export const CHART_SHOWN_WIDTH = 480;
 
 const F2 = '0.00';
 const F3 = '0.000';
 const REVIEW_FORMATS: Readonly<Record<string, string>> = { 'Share of runs flagged': F3, 'Expected false rejection per run': F3, 'Mean z': F2, 'SD of z': F2 };
+
+/**
+ * What the flags column shows where no rule fires (QC.FLAGS gives ""). A formula cell whose
+ * cached result is empty text is recalculated on opening by programs without the add-in, which
+ * then show an error there; a visible mark keeps the cached result.
+ */
+export const NO_FLAG = '–';
 
 /** Columns of the results table. */
 const TABLE = { run: 1, date: 2, value: 3, target: 4, sd: 5, z: 6, flags: 7, line: 8 } as const;
@@ -68,12 +72,19 @@ export function materialPoints(a: AnalyteReview, m: MaterialReview): { points: C
   return { points: all.filter((p) => kept.has(p)), total: all.length };
 }
 
-/** The chart as a PNG and its size on the sheet in pixels. */
-function chartPicture(a: AnalyteReview, m: MaterialReview): { png: Buffer; width: number; height: number; shown: number; total: number } {
+/** A sheet's chart: its picture being rendered, and how many of the results it draws. */
+export interface PendingChart {
+  readonly width: number;
+  readonly height: number;
+  readonly png: Promise<Buffer>;
+  readonly shown: number;
+  readonly total: number;
+}
+
+/** Starts the chart of one material (rendered while other sheets are written). */
+export function startChart(a: AnalyteReview, m: MaterialReview): PendingChart {
   const { points, total } = materialPoints(a, m);
-  const svg = controlChartSvg({ title: `${a.analyte} — ${m.level.level}`, series: [{ name: m.level.level, points }], width: CHART_WIDTH });
-  const height = Number(/\bheight="([\d.]+)"/.exec(svg)?.[1] ?? CHART_WIDTH / 2);
-  return { png: svgToPng(svg, 1), width: CHART_SHOWN_WIDTH, height: Math.round((height * CHART_SHOWN_WIDTH) / CHART_WIDTH), shown: points.length, total };
+  return { ...renderChart(`${a.analyte} — ${m.level.level}`, m.level.level, points), shown: points.length, total };
 }
 
 interface Layout {
@@ -137,8 +148,8 @@ function writePerformance(doc: DocumentSheet, top: number, a: AnalyteReview, m: 
   if (m.runSizeStatement) line(`Note: ${m.runSizeStatement}.`);
 }
 
-/** Writes one analyte × material sheet. */
-export function writeMaterialSheet(ctx: ReviewContext, name: string, a: AnalyteReview, m: MaterialReview, block: Block): void {
+/** Writes one analyte × material sheet, its chart placed once rendered. */
+export async function writeMaterialSheet(ctx: ReviewContext, name: string, a: AnalyteReview, m: MaterialReview, block: Block, pic: PendingChart): Promise<void> {
   const results = m.level.results;
   const dates = results.map((r) => r.date).filter((d): d is string => d !== null);
   const period = dates.length ? `, ${dates[0]} to ${dates[dates.length - 1]}` : '';
@@ -152,7 +163,6 @@ export function writeMaterialSheet(ctx: ReviewContext, name: string, a: AnalyteR
   const perfTop = doc.row;
   doc.skip(performanceRows(a, m));
   doc.skip();
-  const pic = chartPicture(a, m);
   const picTop = doc.row;
   const picRows = Math.ceil((pic.height * 0.75) / 15) + 1;
   doc.skip(picRows);
@@ -165,12 +175,13 @@ export function writeMaterialSheet(ctx: ReviewContext, name: string, a: AnalyteR
   results.forEach((res, i) => {
     const r = doc.line([res.run, res.date ?? '', res.value, res.target, res.sd]);
     live(doc.ws, r, TABLE.z, `=(C${r}-D${r})/E${r}`, m.z[i], F2);
-    live(doc.ws, r, TABLE.flags, `=INDEX(${flagsCall},${m.positions[i]})`, m.flags[i]);
+    const flag = `INDEX(${flagsCall},${m.positions[i]})`;
+    live(doc.ws, r, TABLE.flags, `=IF(${flag}="","${NO_FLAG}",${flag})`, m.flags[i] === '' ? NO_FLAG : m.flags[i]);
     doc.put(r, TABLE.line, res.line);
   });
   writeFigures(doc, figuresTop, a, m, t, block);
   writePerformance(doc, perfTop, a, m, t);
-  const id = ctx.wb.addImage({ buffer: pic.png as unknown as ExcelJS.Buffer, extension: 'png' });
+  const id = ctx.wb.addImage({ buffer: (await pic.png) as unknown as ExcelJS.Buffer, extension: 'png' });
   doc.ws.addImage(id, { tl: { col: 0, row: picTop - 1 }, ext: { width: pic.width, height: pic.height }, editAs: 'oneCell' });
   doc.finish();
 }

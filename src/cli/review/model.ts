@@ -154,7 +154,7 @@ function chooseRule(request: ReviewRequest, inputs: readonly MaterialInput[], ha
     const a = m.assessment;
     if (!a || !a.plan.ok || !a.inUse.sigma.ok) continue;
     const sigma = a.inUse.sigma.value;
-    if (!pick || sigma < pick.sigma) pick = { rule: a.plan.value.rule, n: a.plan.value.n, sigma, from: `QC plan of ${m.level.level} (its sigma is the lowest)` };
+    if (!pick || sigma < pick.sigma) pick = { rule: a.plan.value.rule, n: a.plan.value.n, sigma, from: `QC plan of ${m.level.level}, the material with the lowest sigma` };
   }
   if (pick) return pick;
   return { rule: DEFAULT_REVIEW_RULE, from: hasRow ? 'default (no QC plan could be computed from the table)' : 'default' };

@@ -35,26 +35,26 @@ function tableFigures(m: MaterialReview): DocValue[] {
   return [f(x.inUse.cv), f(x.inUse.total), f(x.inUse.sigma), show(m.runSize)];
 }
 
-/** Writes the Summary sheet (the workbook's first). `sheetOf` names each analyte × material sheet. */
-export function writeSummarySheet(ctx: ReviewContext, analytes: readonly AnalyteReview[], sheetOf: (a: number, m: number) => string, labRunSize: number | undefined): void {
+/** Writes the Summary sheet (the workbook's first). */
+export function writeSummarySheet(ctx: ReviewContext, analytes: readonly AnalyteReview[], labRunSize: number | undefined): void {
   const doc = reviewSheet(ctx, SUMMARY_SHEET, 'Control review: summary');
   const tier = ctx.provenance.tier;
   const lab = labRunSize !== undefined;
   doc.printTitle(
     doc.header([
-      'Analyte', 'Material', 'Sheet', 'Rule', 'Rule from', 'Results', 'Runs', 'Runs flagged', 'Share of runs flagged', 'Expected false rejection per run',
+      'Analyte', 'Material', 'Rule', 'Rule from', 'Results', 'Runs', 'Runs flagged', 'Share of runs flagged', 'Expected false rejection per run',
       'Runs flagged, all materials', 'Mean z', 'SD of z', 'Results beyond 2 SD', 'Observed CV %', 'Bias % vs targets',
       `Allowable CV % (${tier})`, `Allowable total % (${tier})`, 'Sigma', 'Run size', ...(lab ? [`Lab run size ${labRunSize}`] : []),
     ]),
   );
-  const formats = [undefined, undefined, undefined, undefined, undefined, '0', '0', '0', '0.000', '0.000', '0', '0.00', '0.00', '0', '0.00', '0.00', '0.00', '0.00', '0.0', '0'];
-  analytes.forEach((a, ai) =>
-    a.materials.forEach((m, mi) => {
+  const formats = [undefined, undefined, undefined, undefined, '0', '0', '0', '0.000', '0.000', '0', '0.00', '0.00', '0', '0.00', '0.00', '0.00', '0.00', '0.0', '0'];
+  analytes.forEach((a) =>
+    a.materials.forEach((m) => {
       const r = (label: string): DocValue => show(figure(m.review, label));
       const labWord = typeof m.runSize === 'number' && lab ? (labRunSize > m.runSize ? 'exceeds' : 'within') : null;
       doc.line(
         [
-          a.analyte, m.level.level, sheetOf(ai, mi), a.rule, ruleSource(a.ruleFrom), r('Results'), r('Runs'), r('Runs flagged'), r('Share of runs flagged'),
+          a.analyte, m.level.level, a.rule, ruleSource(a.ruleFrom), r('Results'), r('Runs'), r('Runs flagged'), r('Share of runs flagged'),
           r('Expected false rejection per run'), show(figure(a.review, 'Runs flagged')), r('Mean z'), r('SD of z'), r('Results beyond 2 SD'), show(m.cv), show(m.bias),
           ...tableFigures(m), ...(lab ? [labWord] : []),
         ],
