@@ -472,6 +472,57 @@ const cvg = new Float64Array(N);
   }
 }
 
+// --- Review of control results: QC.FLAGS over 10,000 results with a five-term rule (two
+// materials, two results a run), and `leeway review` of 100 analytes × 2 materials × 250 runs
+// (50,000 results, seeded) in a fresh process: its wall time inside the process and its peak
+// resident memory.
+{
+  const rand = L.normalDeviates(seeded(20250601));
+  const n = 10000;
+  const values = [];
+  const runs = [];
+  const levels = [];
+  for (let i = 0; i < n; i++) {
+    values.push([100 + 2 * rand()]);
+    runs.push([`R${i >> 1}`]);
+    levels.push([i % 2 ? 'L2' : 'L1']);
+  }
+  const flags = () => L.evaluate('QC.FLAGS', [values, 100, 2, '1-3s/2-2s/R-4s/4-1s/10-x', runs, levels]);
+  timing('flags_10k_ms', 'QC.FLAGS, 10,000 results, rule 1-3s/2-2s/R-4s/4-1s/10-x, two materials', measure(flags, { runs: 9, warmup: 2 }), '≤ 20');
+
+  const { execFileSync } = require('child_process');
+  const cli = path.join(root, 'dist', 'cli', 'leeway.js');
+  if (!fs.existsSync(cli)) execFileSync(process.execPath, [path.join(root, 'scripts', 'build-cli.js')], { stdio: 'inherit' });
+  const dir = fs.mkdtempSync(path.join(require('os').tmpdir(), 'leeway-bench-review-'));
+  try {
+    const file = path.join(dir, 'results.csv');
+    const lines = ['analyte,level,run,date,value,target,sd'];
+    const z = L.normalDeviates(seeded(20250602));
+    for (let a = 0; a < 100; a++) {
+      for (let r = 0; r < 250; r++) {
+        const date = new Date(Date.UTC(2025, 0, 1) + r * 86400000).toISOString().slice(0, 10);
+        lines.push(`Analyte ${a},L1,A${a}-${r},${date},${(100 + 2 * z()).toFixed(2)},100,2`);
+        lines.push(`Analyte ${a},L2,A${a}-${r},${date},${(250 + 5 * z()).toFixed(2)},250,5`);
+      }
+    }
+    fs.writeFileSync(file, lines.join('\n') + '\n');
+    const args = ['review', '--results', file, '--out', path.join(dir, 'review.xlsx'), '--force', '--date', '2026-01-01'];
+    const code = `
+      const { performance } = require('perf_hooks');
+      const { main } = require(${JSON.stringify(cli)});
+      const t0 = performance.now();
+      main(${JSON.stringify(args)}, { out: () => {}, err: () => {} }).then((rc) => {
+        process.stdout.write(JSON.stringify({ rc, ms: performance.now() - t0, rss: process.resourceUsage().maxRSS }));
+      });`;
+    const r = JSON.parse(execFileSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: root, maxBuffer: 1 << 26 }));
+    const rss = r.rss / 1024;
+    record('review_50k_ms', 'leeway review, 100 analytes × 2 materials × 250 runs (50,000 results)', r.ms, `one run, peak memory ${rss.toFixed(0)} MiB (target ≤ 500), exit ${r.rc}`, '≤ 10000', ' ms');
+    out.review_50k_rss_mib = Number(rss.toPrecision(4));
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
 // --- bundle sizes (minified, without office.js)
 {
   const dist = path.join(root, 'dist', 'addin');

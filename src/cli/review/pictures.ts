@@ -4,7 +4,7 @@
  * ../picture.ts: scale 1 (the picture is shown at three quarters of its pixel width), a white
  * background and the installed fonts with Liberation Sans preferred.
  */
-import { renderAsync } from '@resvg/resvg-js';
+import type ResvgModule from '@resvg/resvg-js';
 import { controlChartSvg } from '../../charts/controlChart';
 import type { ChartPoint } from '../../charts/controlChart';
 
@@ -30,6 +30,9 @@ function svgHeight(svg: string): number {
 export function renderChart(title: string, name: string, points: readonly ChartPoint[]): { width: number; height: number; png: Promise<Buffer> } {
   const svg = controlChartSvg({ title, series: [{ name, points }], width: CHART_WIDTH });
   const height = Math.round((svgHeight(svg) * CHART_SHOWN_WIDTH) / CHART_WIDTH);
+  // Loaded on first use, so commands that draw nothing start without the renderer.
+  // eslint-disable-next-line @typescript-eslint/no-require-imports
+  const { renderAsync } = require('@resvg/resvg-js') as typeof ResvgModule;
   const png = renderAsync(svg, {
     fitTo: { mode: 'zoom', value: 1 },
     background: 'white',
