@@ -44,7 +44,7 @@ function expectEveryCellWhole(wb: ExcelJS.Workbook, words: readonly Word[]): voi
       row.eachCell((cell) => {
         // exceljs leaves a cached 0 out of the formula value it reads back; cell.result has it.
         const v = cell.value;
-        const shown = v && typeof v === 'object' && 'formula' in v ? shownText({ value: { formula: v.formula, result: cell.result }, numFmt: cell.numFmt } as unknown as ExcelJS.Cell) : shownText(cell);
+        const shown = v && typeof v === 'object' && ('formula' in v || 'sharedFormula' in v) ? shownText({ value: { formula: cell.formula, result: cell.result }, numFmt: cell.numFmt } as unknown as ExcelJS.Cell) : shownText(cell);
         for (const w of shown.split(/\s+/).filter(Boolean)) {
           // A negative number that rounds to zero: LibreOffice prints 0.00 where Excel keeps the sign (common practice, no source).
           const alt = /^-0(\.0+)?$/.test(w) ? w.slice(1) : w;

@@ -67,14 +67,13 @@ function labelledFigures(name: string, args: Parameters<typeof evaluate>[1]): Ma
 function cachedOf(cell: ExcelJS.Cell): unknown {
   const v = cell.value;
   // exceljs leaves a cached 0 out of the formula value it reads back; cell.result has it.
-  if (v && typeof v === 'object' && 'formula' in v) return cell.result;
+  if (v && typeof v === 'object' && ('formula' in v || 'sharedFormula' in v)) return cell.result;
   return v;
 }
 
+/** A cell's formula as typed (a shared formula's row moved to this cell), or ''. */
 function formulaOf(cell: ExcelJS.Cell): string {
-  const v = cell.value;
-  if (v && typeof v === 'object' && 'formula' in v) return typedFormula((v as ExcelJS.CellFormulaValue).formula);
-  return '';
+  return cell.formula ? typedFormula(cell.formula) : '';
 }
 
 /** The rows of a sheet's table under the header whose first cell is `first`. */
@@ -154,7 +153,9 @@ describe('leeway review', () => {
         table.forEach((row, k) => {
           const flags = ws.getCell(row, 7);
           expect(formulaOf(flags)).toMatch(/^=IF\(INDEX\(LEEWAY\.QC\.FLAGS\(Results!\$F\$\d+:\$F\$\d+,/);
-          expect(formulaOf(flags)).toContain(`,${mine[k].i + 1})`);
+          // The result is found by its row in the file, written beside it.
+          expect(formulaOf(flags)).toContain(`MATCH($H${row},Results!$A$`);
+          expect(ws.getCell(row, 8).value).toBe(rows.indexOf(mine[k].r) + 2);
           expect(cachedOf(flags)).toBe(expected[mine[k].i] === '' ? NO_FLAG : expected[mine[k].i]);
           // z is a plain formula with its value cached.
           expect(formulaOf(ws.getCell(row, 6))).toBe(`=(C${row}-D${row})/E${row}`);

@@ -39,6 +39,8 @@ export const NO_FLAG = '–';
 /** Columns of the results table. */
 const TABLE = { run: 1, date: 2, value: 3, target: 4, sd: 5, z: 6, flags: 7, line: 8 } as const;
 const LETTER = { run: 'A', value: 'C', target: 'D', sd: 'E' } as const;
+const LETTER_Z = 'F';
+const LETTER_FLAGS = 'G';
 
 /** A cached value as exceljs stores a formula's result. */
 function cached(v: OutCell): ExcelJS.CellFormulaValue['result'] {
@@ -50,6 +52,14 @@ function cached(v: OutCell): ExcelJS.CellFormulaValue['result'] {
 function live(ws: ExcelJS.Worksheet, row: number, col: number, typed: string, value: OutCell, format?: string): void {
   const cell = ws.getCell(row, col);
   cell.value = { formula: storedFormula(typed), result: cached(value) };
+  if (format && typeof value === 'number') cell.numFmt = format;
+  if (typeof value === 'string') cell.alignment = { horizontal: 'left', indent: 1 };
+}
+
+/** A cell of a shared formula: the master's formula moved to this row, with its cached value. */
+function shared(ws: ExcelJS.Worksheet, row: number, col: number, master: string, value: OutCell, format?: string): void {
+  const cell = ws.getCell(row, col);
+  cell.value = { sharedFormula: master, result: cached(value) };
   if (format && typeof value === 'number') cell.numFmt = format;
   if (typeof value === 'string') cell.alignment = { horizontal: 'left', indent: 1 };
 }
@@ -172,12 +182,23 @@ export async function writeMaterialSheet(ctx: ReviewContext, name: string, a: An
   const t: Layout = { first: doc.row, last: doc.row + results.length - 1 };
   const R = RESULTS_COLUMNS;
   const flagsCall = `${NAMESPACE}.QC.FLAGS(${blockRange(block, R.value)},${blockRange(block, R.target)},${blockRange(block, R.sd)},${quoted(a.rule)},${blockRange(block, R.run)},${blockRange(block, R.level)})`;
+  // z and the flags are one shared formula each (written once, the rows below refer to it); a
+  // result's flags are found by its row in the file, so the formula is the same on every row.
+  const zMaster = `${LETTER_Z}${t.first}`;
+  const flagMaster = `${LETTER_FLAGS}${t.first}`;
+  const lines = blockRange(block, R.line);
   results.forEach((res, i) => {
     const r = doc.line([res.run, res.date ?? '', res.value, res.target, res.sd]);
-    live(doc.ws, r, TABLE.z, `=(C${r}-D${r})/E${r}`, m.z[i], F2);
-    const flag = `INDEX(${flagsCall},${m.positions[i]})`;
-    live(doc.ws, r, TABLE.flags, `=IF(${flag}="","${NO_FLAG}",${flag})`, m.flags[i] === '' ? NO_FLAG : m.flags[i]);
     doc.put(r, TABLE.line, res.line);
+    const flag = m.flags[i] === '' ? NO_FLAG : m.flags[i];
+    if (i === 0) {
+      live(doc.ws, r, TABLE.z, `=(C${r}-D${r})/E${r}`, m.z[i], F2);
+      const at = `INDEX(${flagsCall},MATCH($H${r},${lines},0))`;
+      live(doc.ws, r, TABLE.flags, `=IF(${at}="","${NO_FLAG}",${at})`, flag);
+      return;
+    }
+    shared(doc.ws, r, TABLE.z, zMaster, m.z[i], F2);
+    shared(doc.ws, r, TABLE.flags, flagMaster, flag);
   });
   writeFigures(doc, figuresTop, a, m, t, block);
   writePerformance(doc, perfTop, a, m, t);
