@@ -45,7 +45,7 @@ export interface MaterialReview {
   readonly assessment?: Assessment;
   /** QC.RUNSIZE of the rule in use, or why not. */
   readonly runSize: OutCell | string;
-  /** Said when the laboratory's run size exceeds the computed one. */
+  /** Said when the laboratory's run size (--run-size) exceeds the computed one; "" otherwise. */
   readonly runSizeStatement: string;
 }
 
@@ -169,13 +169,8 @@ function runSizeOf(m: MaterialInput, rule: string, n: number, labRunSize: number
   const bias = num(m.bias);
   if (cv === undefined || bias === undefined) return { runSize: 'needs the observed CV and bias', statement: '' };
   const runSize = scalar('QC.RUNSIZE', [total.value, bias, cv, rule, n]);
-  let statement = '';
-  if (labRunSize !== undefined && typeof runSize === 'number') {
-    statement =
-      labRunSize > runSize
-        ? `the laboratory's ${labRunSize} patient results between QC events exceed the computed run size of ${runSize}`
-        : `the laboratory's ${labRunSize} patient results between QC events are within the computed run size of ${runSize}`;
-  }
+  const exceeds = labRunSize !== undefined && typeof runSize === 'number' && labRunSize > runSize;
+  const statement = exceeds ? `the laboratory's ${labRunSize} patient results between QC events exceed the computed run size of ${runSize}` : '';
   return { runSize, statement };
 }
 
