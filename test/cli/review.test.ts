@@ -15,6 +15,7 @@ import { CAUTION } from '../../src/engine/caution';
 import { SIGN_OFF_TITLE, shownText } from '../../src/cli/document';
 import { NO_FLAG } from '../../src/cli/review/materialSheet';
 import { QC_REVIEW } from '../../src/registry/catalogue/qc';
+import { CONTROL_EVENTS, DEMO_MARKER } from '../../src/engine/demo';
 
 const DATE = '2026-02-03';
 
@@ -352,4 +353,40 @@ describe('leeway review refuses bad input and writes nothing', () => {
     expect(fs.readFileSync(out, 'utf8')).toBe('mine');
     expect((await leeway('review', '--results', file, '--out', out, '--force')).code).toBe(0);
   });
+});
+
+describe('leeway review --demo', () => {
+  test('reviews the invented year against the demo table: every sheet marked DEMO, the planted shift and loss of precision stand out', async () => {
+    const dir = tempDir('review-demo');
+    const out = path.join(dir, 'demo.xlsx');
+    const r = await leeway('review', '--demo', '--out', out, '--date', DATE);
+    expect(r.code).toBe(0);
+    expect(r.err).toEqual([]);
+    expect(r.out[0]).toContain(DEMO_MARKER);
+    const wb = await readBack(out);
+    expect(wb.worksheets).toHaveLength(2 + 12 * 2);
+    for (const ws of wb.worksheets) {
+      expect(sheetText(ws)).toContain(DEMO_MARKER);
+      expect(ws.headerFooter.oddHeader).toContain(DEMO_MARKER);
+    }
+    // SD of z of the material alone: the month of doubled SD lifts Irvastine's; Brontase's share of
+    // runs flagged, all materials, is the highest of all (the month of shift).
+    const sheet = wb.getWorksheet('Summary')!;
+    const header = rowOfLabel(sheet, 'Analyte');
+    const names: string[] = [];
+    sheet.getRow(header).eachCell((c) => void names.push(String(c.value)));
+    const at = (label: string): number => names.indexOf(label) + 1;
+    const rowsOf = new Map<string, number[]>();
+    for (let r = header + 1; typeof sheet.getCell(r, at('Results')).value === 'number'; r++) {
+      const a = String(sheet.getCell(r, 1).value);
+      rowsOf.set(a, [...(rowsOf.get(a) ?? []), r]);
+    }
+    expect(rowsOf.size).toBe(12);
+    const allFlagged = (a: string): number => Number(sheet.getCell(rowsOf.get(a)![0], at('Runs flagged, all materials')).value) / Number(sheet.getCell(rowsOf.get(a)![0], at('Runs')).value);
+    const sdZ = (a: string): number => Math.max(...rowsOf.get(a)!.map((r) => Number(sheet.getCell(r, at('SD of z')).value)));
+    for (const a of rowsOf.keys()) {
+      if (a !== CONTROL_EVENTS.shift.analyte) expect(allFlagged(CONTROL_EVENTS.shift.analyte)).toBeGreaterThan(allFlagged(a));
+      if (a !== CONTROL_EVENTS.imprecision.analyte && a !== CONTROL_EVENTS.shift.analyte) expect(sdZ(CONTROL_EVENTS.imprecision.analyte)).toBeGreaterThan(sdZ(a));
+    }
+  }, 120000);
 });

@@ -210,6 +210,7 @@ export async function reviewCommand(args: string[], io: Io): Promise<number> {
   await writeWorkbookAtomically(wb, out, force);
   bar.done();
   const sheets = analytes.reduce((n, a) => n + a.materials.length, 0);
-  io.out(`wrote ${out}: ${file.results.length} control results, ${analytes.length} analyte${analytes.length === 1 ? '' : 's'}, ${sheets} analyte × material sheet${sheets === 1 ? '' : 's'}, a summary and the results as read${demo ? ` — ${DEMO_MARKER}` : ''}`);
+  const n = file.results.length;
+  io.out(`wrote ${out}: ${n} control result${n === 1 ? '' : 's'}, ${analytes.length} analyte${analytes.length === 1 ? '' : 's'}, ${sheets} analyte × material sheet${sheets === 1 ? '' : 's'}, a summary and the results as read${demo ? ` — ${DEMO_MARKER}` : ''}`);
   return 0;
 }
