@@ -472,24 +472,10 @@ const cvg = new Float64Array(N);
   }
 }
 
-// --- Review of control results: QC.FLAGS over 10,000 results with a five-term rule (two
-// materials, two results a run), and `leeway review` of 100 analytes × 2 materials × 250 runs
-// (50,000 results, seeded) in a fresh process: its wall time inside the process and its peak
-// resident memory.
+// --- The review workbook: `leeway review` of 100 analytes × 2 materials × 250 runs (50,000
+// results, seeded; 200 material sheets with their charts) in a fresh process: its wall time
+// inside the process and its peak resident memory. (QC.FLAGS on 10,000 results is timed above.)
 {
-  const rand = L.normalDeviates(seeded(20250601));
-  const n = 10000;
-  const values = [];
-  const runs = [];
-  const levels = [];
-  for (let i = 0; i < n; i++) {
-    values.push([100 + 2 * rand()]);
-    runs.push([`R${i >> 1}`]);
-    levels.push([i % 2 ? 'L2' : 'L1']);
-  }
-  const flags = () => L.evaluate('QC.FLAGS', [values, 100, 2, '1-3s/2-2s/R-4s/4-1s/10-x', runs, levels]);
-  timing('flags_10k_ms', 'QC.FLAGS, 10,000 results, rule 1-3s/2-2s/R-4s/4-1s/10-x, two materials', measure(flags, { runs: 9, warmup: 2 }), '≤ 20');
-
   const { execFileSync } = require('child_process');
   const cli = path.join(root, 'dist', 'cli', 'leeway.js');
   if (!fs.existsSync(cli)) execFileSync(process.execPath, [path.join(root, 'scripts', 'build-cli.js')], { stdio: 'inherit' });
