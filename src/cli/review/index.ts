@@ -69,13 +69,8 @@ export interface ReviewBuild {
 }
 
 /** Every figure, analyte by analyte. */
-export function reviewAll(request: ReviewRequest, progress?: Progress): AnalyteReview[] {
-  const total = request.file.analytes.length;
-  return request.file.analytes.map((a, i) => {
-    const r = reviewAnalyte(a, analyteBlock(a), request);
-    progress?.update(i + 0.5, total);
-    return r;
-  });
+export function reviewAll(request: ReviewRequest): AnalyteReview[] {
+  return request.file.analytes.map((a) => reviewAnalyte(a, analyteBlock(a), request));
 }
 
 /** Builds the review workbook in memory. */
