@@ -472,6 +472,43 @@ const cvg = new Float64Array(N);
   }
 }
 
+// --- The review workbook: `leeway review` of 100 analytes × 2 materials × 250 runs (50,000
+// results, seeded; 200 material sheets with their charts) in a fresh process: its wall time
+// inside the process and its peak resident memory. (QC.FLAGS on 10,000 results is timed above.)
+{
+  const { execFileSync } = require('child_process');
+  const cli = path.join(root, 'dist', 'cli', 'leeway.js');
+  if (!fs.existsSync(cli)) execFileSync(process.execPath, [path.join(root, 'scripts', 'build-cli.js')], { stdio: 'inherit' });
+  const dir = fs.mkdtempSync(path.join(require('os').tmpdir(), 'leeway-bench-review-'));
+  try {
+    const file = path.join(dir, 'results.csv');
+    const lines = ['analyte,level,run,date,value,target,sd'];
+    const z = L.normalDeviates(seeded(20250602));
+    for (let a = 0; a < 100; a++) {
+      for (let r = 0; r < 250; r++) {
+        const date = new Date(Date.UTC(2025, 0, 1) + r * 86400000).toISOString().slice(0, 10);
+        lines.push(`Analyte ${a},L1,A${a}-${r},${date},${(100 + 2 * z()).toFixed(2)},100,2`);
+        lines.push(`Analyte ${a},L2,A${a}-${r},${date},${(250 + 5 * z()).toFixed(2)},250,5`);
+      }
+    }
+    fs.writeFileSync(file, lines.join('\n') + '\n');
+    const args = ['review', '--results', file, '--out', path.join(dir, 'review.xlsx'), '--force', '--date', '2026-01-01'];
+    const code = `
+      const { performance } = require('perf_hooks');
+      const { main } = require(${JSON.stringify(cli)});
+      const t0 = performance.now();
+      main(${JSON.stringify(args)}, { out: () => {}, err: () => {} }).then((rc) => {
+        process.stdout.write(JSON.stringify({ rc, ms: performance.now() - t0, rss: process.resourceUsage().maxRSS }));
+      });`;
+    const r = JSON.parse(execFileSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: root, maxBuffer: 1 << 26 }));
+    const rss = r.rss / 1024;
+    record('review_50k_ms', 'leeway review, 100 analytes × 2 materials × 250 runs (50,000 results)', r.ms, `one run, peak memory ${rss.toFixed(0)} MiB (target ≤ 500), exit ${r.rc}`, '≤ 10000', ' ms');
+    out.review_50k_rss_mib = Number(rss.toPrecision(4));
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
 // --- bundle sizes (minified, without office.js)
 {
   const dist = path.join(root, 'dist', 'addin');

@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// npm start: builds the add-in, builds the demo workbook, serves the add-in over HTTPS on
+// npm start: builds the add-in, builds the demo workbook and the demo review workbook, serves the add-in over HTTPS on
 // localhost with generated development certificates, and sideloads it into desktop Excel where
 // that exists (Windows, macOS). On Linux there is no desktop Excel: it says so, keeps serving
 // and prints how to sideload the manifest by hand. It never reads standard input.
@@ -111,6 +111,13 @@ async function main() {
     say(`  demo workbook: ${demo}`);
   } catch {
     say('  the demo workbook could not be built (see the message above); the add-in is still served.');
+  }
+  const review = path.join(root, 'out', 'leeway-review-demo.xlsx');
+  try {
+    run(process.execPath, [path.join(root, 'bin', 'leeway.js'), 'review', '--demo', '--out', review, '--force'], 'building the demo review of control results (invented data)');
+    say(`  demo review workbook: ${review}`);
+  } catch {
+    say('  the demo review workbook could not be built (see the message above); the add-in is still served.');
   }
   const tls = await certificates();
   const server = await serve(tls);

@@ -15,6 +15,10 @@ test('npm start serves every page over HTTPS, says it cannot sideload here, and 
   const demo = path.join(__dirname, '..', 'out', 'leeway-demo.xlsx');
   expect(r.stdout).toContain(`demo workbook: ${demo}`);
   expect(fs.existsSync(demo)).toBe(true);
+  // The demo review of an invented year of control results, beside it.
+  const review = path.join(__dirname, '..', 'out', 'leeway-review-demo.xlsx');
+  expect(r.stdout).toContain(`demo review workbook: ${review}`);
+  expect(fs.existsSync(review)).toBe(true);
   expect(r.stdout).toMatch(new RegExp(`serving the add-in at https://localhost:${port}/`));
   for (const page of ['taskpane.html', 'functions.json', 'functions.js', 'commands.html', 'assets/office-js/office.js']) {
     expect(r.stdout).toContain(`${page}: 200`);

@@ -13,7 +13,7 @@ function loadSources(entry, name = 'bench-entry') {
     target: 'node20',
     format: 'cjs',
     write: false,
-    external: ['exceljs', 'papaparse', 'decimal.js', 'hyperformula', 'office-addin-mock'],
+    external: ['exceljs', 'papaparse', 'decimal.js', 'hyperformula', 'office-addin-mock', '@resvg/resvg-js'],
     logLevel: 'error',
   });
   const file = path.join(root, `${name}.js`);

@@ -10,6 +10,7 @@ import { VERSION } from '../engine/version';
 import { fillCommand, FILL_USAGE } from './fill';
 import { checkCommand, CHECK_USAGE } from './check';
 import { demoCommand, DEMO_USAGE } from './demo';
+import { reviewCommand, REVIEW_USAGE } from './review';
 
 const CALL_USAGE = `  leeway call FUNCTION [ARG ...]   evaluate one worksheet function (with or without the ${NAMESPACE}. prefix)
   leeway call --lines              read ["FUNCTION", arg, ...] per line on stdin, write one JSON result per line`;
@@ -26,6 +27,7 @@ ${LIST_USAGE}
 ${FILL_USAGE}
 ${CHECK_USAGE}
 ${DEMO_USAGE}
+${REVIEW_USAGE}
 ${HELP_USAGE}
 
 An ARG is a number, a word, or a JSON array for a range ([1,2,3] is a column, [[1,2],[3,4]] rows);
@@ -49,6 +51,7 @@ const COMMAND_USAGE: Record<string, string> = {
   fill: FILL_USAGE,
   check: CHECK_USAGE,
   demo: DEMO_USAGE,
+  review: REVIEW_USAGE,
 };
 
 export interface Io {
@@ -148,6 +151,7 @@ export const COMMANDS: Record<string, Command> = {
   fill: fillCommand,
   check: checkCommand,
   demo: demoCommand,
+  review: reviewCommand,
 };
 
 export async function main(argv: string[], io: Io = stdio): Promise<number> {
