@@ -16,12 +16,12 @@ import { writePlan } from './xlsx';
 import { DocumentSheet, planDocument } from './document';
 import type { DocValue, Paper } from './document';
 import { readPaper } from './fill';
-import { evaluate } from '../registry';
+import { evaluate, findFunction } from '../registry';
 import type { Arg } from '../registry';
 import type { OutCell } from '../registry/types';
-import { demoData, demoTable, DEMO_ANALYSERS, DEMO_LAB, DEMO_MARKER, reportedDecimals } from '../engine/demo';
-import type { DemoAnalyteData } from '../engine/demo';
-import { planFill, decimalsFormat } from '../engine/fill';
+import { demoData, demoTable, demoVerification, DEMO_ANALYSERS, DEMO_LAB, DEMO_MARKER, reportedDecimals, REPLICATES_PER_DAY, REPLICATION_DAYS, VERIFICATION_MATERIALS } from '../engine/demo';
+import type { DemoAnalyteData, VerificationAnalyte, VerificationMaterial } from '../engine/demo';
+import { planFill, decimalsFormat, columnLetters } from '../engine/fill';
 import { rowKey } from '../engine/table';
 import type { FillMode } from '../engine/fill';
 import { VERSION } from '../engine/version';
@@ -29,6 +29,11 @@ import { assess } from '../engine/assess';
 import type { Fig } from '../engine/assess';
 import type { QcPlan } from '../engine/qc/plan';
 import { QC_PLAN } from '../registry/catalogue/qc';
+import { differencePlotSvg } from '../charts/differencePlot';
+import type { AgreementLines } from '../charts/differencePlot';
+import { svgToPng } from './picture';
+import { columnPoints, LINE_POINTS, printable } from './document';
+import type { PrintLayout } from './document';
 
 export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live] [--date YYYY-MM-DD] [--paper A4|Letter]
                                    build the demo workbook (invented data) in FILE (default leeway-demo.xlsx)`;
@@ -265,6 +270,338 @@ function replicationSheet(ctx: DemoContext): void {
   doc.finish();
 }
 
+/** Position (1-based) of a label in a labelled spill: the k of =INDEX(LEEWAY.NAME(…),2,k). */
+function spillIndex(name: string, label: string): number {
+  const k = findFunction(name)?.labels?.indexOf(label) ?? -1;
+  if (k < 0) throw new Error(`${name} has no figure "${label}"`);
+  return k + 1;
+}
+
+/** Formula text of one figure of a labelled spill. */
+function indexFormula(name: string, args: string, label: string): string {
+  return `=INDEX(LEEWAY.${name}(${args}),2,${spillIndex(name, label)})`;
+}
+
+/** The scale the demo's limits of agreement are on: the demo's errors are proportional, so the differences grow with the level. */
+const AGREEMENT_SCALE = 'percent';
+const AGREEMENT_LABELS = ['Mean difference', 'Mean difference low', 'Mean difference high', 'SD of differences', 'Lower limit', 'Lower limit low', 'Lower limit high', 'Upper limit', 'Upper limit low', 'Upper limit high'] as const;
+const TRUENESS_LABELS = ['Mean', 'Bias', 'Bias %', 'Standard error', 'df', 'Verification low', 'Verification high', 'Verified'] as const;
+/** Width in px the difference plots are drawn at for print, and how much larger they are placed (legible after the page's fit-to-width scale). */
+const PLOT_WIDTH = 480;
+const PLOT_ZOOM = 1.15;
+const PLOTS_PER_ROW = 2;
+/** Pixels of a default row (15 points at 96 px per inch). */
+const ROW_PX = 20;
+
+/** The figures of one material of the verification study, each from the registry. */
+interface MaterialFigures {
+  readonly m: VerificationMaterial;
+  readonly values: number[][];
+  readonly groups: string[][];
+  readonly precision: Map<string, OutCell>;
+  readonly verify: Map<string, OutCell>;
+  readonly repeatabilityLimits: Map<string, OutCell> | undefined;
+  readonly withinLabLimits: Map<string, OutCell> | undefined;
+  readonly sigma: Map<string, OutCell> | undefined;
+  readonly trueness: Map<string, OutCell> | undefined;
+}
+
+/** CV limits when the CV and its df are numbers. */
+function cvLimitsOf(cv: OutCell | undefined, df: OutCell | undefined): Map<string, OutCell> | undefined {
+  return num(cv) !== undefined && num(df) !== undefined ? labelled('DATA.CVLIMITS', [num(cv)!, num(df)!]) : undefined;
+}
+
+/** Every figure of the verification study: precision, CV limits, sigma against the analyte's allowance in use, trueness. */
+export function verificationFigures(figures: readonly Observed[] = demoFigures()): Array<{ analyte: VerificationAnalyte; observed: Observed; materials: MaterialFigures[]; agreement: Map<string, OutCell> }> {
+  return demoVerification().map((a) => {
+    const observed = figures.find((f) => f.data.analyte === a.analyte);
+    if (!observed) throw new Error(`the verification study names ${a.analyte}, which is not a demo analyte`);
+    const materials = a.materials.map((m): MaterialFigures => {
+      const values = col(m.replication.map((x) => x.result));
+      const groups = colText(m.replication.map((x) => x.day));
+      const precision = labelled('DATA.PRECISION', [values, groups]);
+      const verify = labelled('VERIFY.PRECISION', [values, groups, m.claim.repeatability, m.claim.withinLab, VERIFICATION_MATERIALS]);
+      const wlCv = pick(precision, 'Within-lab CV %');
+      const wlDf = pick(precision, 'Within-lab df');
+      const inputs = [observed.allowable, observed.bias, wlCv, wlDf, observed.uBias].map(num);
+      return {
+        m,
+        values,
+        groups,
+        precision,
+        verify,
+        repeatabilityLimits: cvLimitsOf(pick(precision, 'Repeatability CV %'), pick(verify, 'Repeatability df')),
+        withinLabLimits: cvLimitsOf(wlCv, wlDf),
+        sigma: inputs.every((x) => x !== undefined) ? labelled('PERF.SIGMALIMITS', inputs as number[]) : undefined,
+        trueness: m.assigned ? labelled('VERIFY.TRUENESS', [values, groups, m.assigned.value, m.assigned.u, 1]) : undefined,
+      };
+    });
+    const pairs = observed.data.comparison;
+    const agreement = labelled('DATA.AGREEMENT', [col(pairs.map((p) => p.x)), col(pairs.map((p) => p.y)), AGREEMENT_SCALE]);
+    return { analyte: a, observed, materials, agreement };
+  });
+}
+
+/** Rows of the Comparison sheet's raw data of each analyte (x in C, y in D), read back from the sheet. */
+function comparisonRows(ctx: DemoContext): Map<string, [number, number]> {
+  const ws = ctx.wb.getWorksheet('Comparison');
+  if (!ws) throw new Error('the Comparison sheet is built before the Verification sheet reads it');
+  const spans = new Map<string, [number, number]>();
+  const samples = new Set(ctx.figures.flatMap((f) => f.data.comparison.map((p) => p.sample)));
+  ws.eachRow((row, r) => {
+    const analyte = row.getCell(1).value;
+    if (typeof analyte !== 'string' || !samples.has(String(row.getCell(2).value))) return;
+    const s = spans.get(analyte);
+    spans.set(analyte, s ? [s[0], r] : [r, r]);
+  });
+  return spans;
+}
+
+/** A sheet being written: cells filled by address, each computed figure's formula text kept for the list at the end. */
+class FormulaLog {
+  readonly lines: Array<[string, string]> = [];
+  constructor(private readonly doc: DocumentSheet) {}
+
+  /** A figure in a cell, with the formula that computes it (none for an input). */
+  put(row: number, column: number, value: DocValue, format?: string, formula?: string): string {
+    this.doc.put(row, column, value, { format });
+    const address = `${columnLetters(column)}${row}`;
+    if (formula) this.lines.push([address, formula]);
+    return address;
+  }
+}
+
+/** A table's header and room for its rows; returns the first row. */
+function tableAt(doc: DocumentSheet, heading: string, header: readonly string[], rows: number, notes: readonly string[]): number {
+  doc.text(heading, { bold: true });
+  doc.header(header);
+  const first = doc.row;
+  doc.skip(rows);
+  for (const n of notes) doc.note(n);
+  doc.skip();
+  return first;
+}
+
+/** The verification study: precision claims, CV limits, sigma, trueness, agreement with its difference plots, the raw data and every formula. */
+function verificationSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'Verification', `Leeway demo: verification of ${DEMO_ANALYSERS.candidate} before it reports patient results`);
+  const study = verificationFigures(ctx.figures);
+  const log = new FormulaLog(doc);
+  const materials = study.flatMap((s) => s.materials.map((mf) => ({ s, mf })));
+  doc.text(`Replication on two invented control materials per analyte, ${REPLICATION_DAYS} days × ${REPLICATES_PER_DAY} replicates each (CLSI EP15-A3 design); claims and assigned values invented. Every formula is listed after the raw data.`);
+  doc.skip();
+  const precisionTop = tableAt(
+    doc,
+    'Precision against the manufacturer’s claims',
+    ['Analyte', 'Material', 'Precision', 'CV %', 'df', 'CV low 95%', 'CV high 95%', 'Claim % (invented)', 'Verification limit %', 'Verified'],
+    materials.length * 2,
+    [
+      `Verification limit = claim·√(χ²(1 − α/L; df)/df), α = 0.05 shared by the L = ${VERIFICATION_MATERIALS} materials of an analyte (LEEWAY.VERIFY.PRECISION).`,
+      '"yes": the study is consistent with the claim; "no": more imprecision than the claim allows, a finding to investigate. CV limits: LEEWAY.DATA.CVLIMITS.',
+    ],
+  );
+  const sigmaTop = tableAt(
+    doc,
+    'Sigma with its confidence limits',
+    ['Analyte', 'Material', 'Allowable total error % (desirable)', 'Bias % (EQA)', 'u(bias) %', 'Within-lab CV %', 'Within-lab df', 'Sigma', 'Sigma low 95%', 'Sigma high 95%'],
+    materials.length,
+    ['Sigma = (allowable − |bias|)/CV with limits from the uncertainty of the CV (its df) and of the bias (LEEWAY.PERF.SIGMALIMITS). Bias and u(bias) are the analyte’s EQA figures (EQA sheet).'],
+  );
+  const truenessMaterials = materials.filter((x) => x.mf.trueness);
+  const truenessTop = tableAt(
+    doc,
+    'Trueness against an assigned value',
+    ['Analyte', 'Material', 'Unit', 'Assigned value (invented)', 'u(assigned) (invented)', ...TRUENESS_LABELS],
+    truenessMaterials.length,
+    ['Verification interval = assigned ± t·√(SE² + u(assigned)²); "yes" when the mean lies inside it (LEEWAY.VERIFY.TRUENESS).'],
+  );
+  const agreementTop = tableAt(
+    doc,
+    `Agreement of ${DEMO_ANALYSERS.candidate} with ${DEMO_ANALYSERS.current} (the Comparison sheet’s patient samples)`,
+    ['Analyte', 'Pairs', 'Scale', ...AGREEMENT_LABELS.map((l) => `${l} %`)],
+    study.length,
+    ['Differences in % of the pair’s mean, as the errors grow with the level; limits = mean ± 1.96 SD, each with its 95 % interval (LEEWAY.DATA.AGREEMENT).'],
+  );
+  const plotRows = Math.ceil((plotHeight() * PLOT_ZOOM) / ROW_PX) + 1;
+  const plotTop = doc.row;
+  doc.skip(plotRows * Math.ceil(study.length / PLOTS_PER_ROW));
+  doc.skip();
+  const raw = writeVerificationRaw(doc, materials.map((x) => ({ analyte: x.s.analyte, m: x.mf.m })));
+  // The tables, now that the raw data rows are known.
+  materials.forEach(({ s, mf }, i) => precisionRows(log, precisionTop + 2 * i, s.analyte.analyte, mf, raw[i]));
+  materials.forEach(({ s, mf }, i) => sigmaRow(log, sigmaTop + i, s, mf, precisionTop + 2 * i + 1));
+  truenessMaterials.forEach(({ s, mf }, i) => truenessRow(log, truenessTop + i, s.analyte, mf, raw[materials.findIndex((x) => x.mf === mf)]));
+  const comparison = comparisonRows(ctx);
+  study.forEach((s, i) => agreementRow(log, agreementTop + i, s.analyte.analyte, s.agreement, comparison.get(s.analyte.analyte)));
+  doc.text('Formulas (as text: each cell’s figure is the registry’s value of this formula; with the add-in, type it into a cell to recompute)', { bold: true });
+  doc.header(['Cell', 'Formula']);
+  for (const [address, formula] of log.lines) {
+    const r = doc.line([address]);
+    doc.put(r, 2, formula);
+    doc.markSpan(r, 2);
+  }
+  const layout = doc.finish();
+  placeDifferencePlots(ctx.wb, doc, study, plotTop, plotRows, layout.contentPoints);
+  // The agreement table and the first row of plots start a page, each further row of plots another
+  // (each fits a page in any program that prints the sheet); then the sign-off is kept whole again.
+  for (let k = 0; k < Math.ceil(study.length / PLOTS_PER_ROW); k++) doc.ws.getRow(k === 0 ? agreementTop - 3 : plotTop + k * plotRows - 1).addPageBreak();
+  keepBlocksWhole(doc.ws, layout, [[layout.signOffRow, layout.lastRow]]);
+}
+
+/**
+ * A manual page break before each block that would otherwise be split across pages, the pages
+ * estimated as the document layer estimates them (row heights, Excel's fit-to-width scale, a
+ * twentieth of a page in reserve, the repeated header row from where it stands), with the breaks
+ * already set.
+ */
+function keepBlocksWhole(ws: ExcelJS.Worksheet, layout: PrintLayout, blocks: ReadonlyArray<[number, number]>): void {
+  const page = (printable(layout.paper, layout.orientation).height / layout.scale) * 0.95;
+  const height = (r: number): number => ws.getRow(r).height ?? LINE_POINTS;
+  const title = (r: number): number => (layout.titleRow !== undefined && r > layout.titleRow ? height(layout.titleRow) : 0);
+  const breaks = new Set(ws.model.rowBreaks.map((b) => b.id));
+  let used = 0;
+  for (let r = 1; r <= layout.lastRow; r++) {
+    const block = blocks.find(([first]) => first === r);
+    if (block && used > title(r)) {
+      let need = 0;
+      for (let k = block[0]; k <= block[1]; k++) need += height(k);
+      if (used + need > page && !breaks.has(r - 1)) {
+        ws.getRow(r - 1).addPageBreak();
+        breaks.add(r - 1);
+        used = title(r);
+      }
+    }
+    if (used + height(r) > page) used = title(r);
+    used += height(r);
+    if (breaks.has(r)) used = title(r + 1);
+  }
+}
+
+function writeVerificationRaw(doc: DocumentSheet, list: ReadonlyArray<{ analyte: VerificationAnalyte; m: VerificationMaterial }>): Array<[number, number]> {
+  doc.text('Raw data (invented)', { bold: true });
+  doc.printTitle(doc.header(['Analyte', 'Material', 'Day', 'Result']));
+  const spans = list.map(({ analyte, m }) => {
+    const first = doc.row;
+    const fmt = levelFormat(m.level);
+    for (const x of m.replication) doc.line([analyte.analyte, m.material, x.day, x.result], { formats: [undefined, undefined, undefined, fmt] });
+    return [first, doc.row - 1] as [number, number];
+  });
+  doc.skip();
+  return spans;
+}
+
+function precisionRows(log: FormulaLog, row: number, analyte: string, mf: MaterialFigures, [first, last]: [number, number]): void {
+  const data = `D${first}:D${last},C${first}:C${last}`;
+  const rep = row;
+  const wl = row + 1;
+  const verifyArgs = `${data},H${rep},H${wl},${VERIFICATION_MATERIALS}`;
+  const parts = [
+    { r: rep, name: 'repeatability', cv: 'Repeatability CV %', df: ['VERIFY.PRECISION', 'Repeatability df', verifyArgs] as const, limits: mf.repeatabilityLimits, claim: mf.m.claim.repeatability, limit: 'Repeatability limit %', verified: 'Repeatability verified' },
+    { r: wl, name: 'within-lab', cv: 'Within-lab CV %', df: ['DATA.PRECISION', 'Within-lab df', data] as const, limits: mf.withinLabLimits, claim: mf.m.claim.withinLab, limit: 'Within-lab limit %', verified: 'Within-lab verified' },
+  ];
+  for (const p of parts) {
+    log.put(p.r, 1, analyte);
+    log.put(p.r, 2, mf.m.material);
+    log.put(p.r, 3, p.name);
+    log.put(p.r, 4, show(pick(mf.precision, p.cv)), P2, indexFormula('DATA.PRECISION', data, p.cv));
+    const dfMap = p.df[0] === 'VERIFY.PRECISION' ? mf.verify : mf.precision;
+    log.put(p.r, 5, show(pick(dfMap, p.df[1])), '0.0', indexFormula(p.df[0], p.df[2], p.df[1]));
+    log.put(p.r, 6, show(pick(p.limits, 'Low')), P2, indexFormula('DATA.CVLIMITS', `D${p.r},E${p.r}`, 'Low'));
+    log.put(p.r, 7, show(pick(p.limits, 'High')), P2, indexFormula('DATA.CVLIMITS', `D${p.r},E${p.r}`, 'High'));
+    log.put(p.r, 8, p.claim, '0.0');
+    log.put(p.r, 9, show(pick(mf.verify, p.limit)), P2, indexFormula('VERIFY.PRECISION', verifyArgs, p.limit));
+    log.put(p.r, 10, show(pick(mf.verify, p.verified)), undefined, indexFormula('VERIFY.PRECISION', verifyArgs, p.verified));
+  }
+}
+
+function sigmaRow(log: FormulaLog, r: number, s: { analyte: VerificationAnalyte; observed: Observed }, mf: MaterialFigures, wlRow: number): void {
+  const o = s.observed;
+  const table = demoTable().rows.find((x) => x.analyte === s.analyte.analyte)!;
+  log.put(r, 1, s.analyte.analyte);
+  log.put(r, 2, mf.m.material);
+  log.put(r, 3, show(o.allowable), P2, `=LEEWAY.SPEC.TOTAL(${table.cvi},${table.cvg},"desirable",1.65)`);
+  log.put(r, 4, show(o.bias), P2);
+  log.put(r, 5, show(o.uBias), P2);
+  log.put(r, 6, show(pick(mf.precision, 'Within-lab CV %')), P2, `=D${wlRow}`);
+  log.put(r, 7, show(pick(mf.precision, 'Within-lab df')), '0.0', `=E${wlRow}`);
+  const args = `C${r},D${r},F${r},G${r},E${r}`;
+  (['Sigma', 'Low', 'High'] as const).forEach((l, k) => log.put(r, 8 + k, show(pick(mf.sigma, l)), '0.0', indexFormula('PERF.SIGMALIMITS', args, l)));
+}
+
+function truenessRow(log: FormulaLog, r: number, a: VerificationAnalyte, mf: MaterialFigures, [first, last]: [number, number]): void {
+  const assigned = mf.m.assigned!;
+  const fmt = levelFormat(mf.m.level);
+  log.put(r, 1, a.analyte);
+  log.put(r, 2, mf.m.material);
+  log.put(r, 3, a.unit);
+  log.put(r, 4, assigned.value, fmt);
+  log.put(r, 5, assigned.u, fmt);
+  const args = `D${first}:D${last},C${first}:C${last},D${r},E${r},1`;
+  const formats: Record<(typeof TRUENESS_LABELS)[number], string | undefined> = { Mean: P3, Bias: P3, 'Bias %': P2, 'Standard error': P3, df: '0.0', 'Verification low': P3, 'Verification high': P3, Verified: undefined };
+  TRUENESS_LABELS.forEach((l, k) => log.put(r, 6 + k, show(pick(mf.trueness, l)), formats[l], indexFormula('VERIFY.TRUENESS', args, l)));
+}
+
+function agreementRow(log: FormulaLog, r: number, analyte: string, agreement: Map<string, OutCell>, rows: [number, number] | undefined): void {
+  if (!rows) throw new Error(`no comparison data of ${analyte} on the Comparison sheet`);
+  const args = `Comparison!C${rows[0]}:C${rows[1]},Comparison!D${rows[0]}:D${rows[1]},C${r}`;
+  log.put(r, 1, analyte);
+  log.put(r, 2, show(pick(agreement, 'Pairs')), '0', indexFormula('DATA.AGREEMENT', args, 'Pairs'));
+  log.put(r, 3, AGREEMENT_SCALE);
+  AGREEMENT_LABELS.forEach((l, k) => log.put(r, 4 + k, show(pick(agreement, l)), P2, indexFormula('DATA.AGREEMENT', args, l)));
+}
+
+/** Height in px of a difference plot drawn PLOT_WIDTH wide (it does not depend on the data). */
+function plotHeight(): number {
+  const zero = { meanDifference: 0, meanDifferenceLow: 0, meanDifferenceHigh: 0, lowerLimit: 0, lowerLimitLow: 0, lowerLimitHigh: 0, upperLimit: 0, upperLimitLow: 0, upperLimitHigh: 0 };
+  const m = /height="([\d.]+)"/.exec(differencePlotSvg({ title: '', pairs: [], agreement: zero, width: PLOT_WIDTH }));
+  return Number(m![1]);
+}
+
+/** The agreement figures a plot draws, when every one is a number. */
+function agreementLines(a: Map<string, OutCell>): AgreementLines | undefined {
+  const v = (l: (typeof AGREEMENT_LABELS)[number]): number | undefined => num(pick(a, l));
+  const lines = {
+    meanDifference: v('Mean difference'),
+    meanDifferenceLow: v('Mean difference low'),
+    meanDifferenceHigh: v('Mean difference high'),
+    lowerLimit: v('Lower limit'),
+    lowerLimitLow: v('Lower limit low'),
+    lowerLimitHigh: v('Lower limit high'),
+    upperLimit: v('Upper limit'),
+    upperLimitLow: v('Upper limit low'),
+    upperLimitHigh: v('Upper limit high'),
+  };
+  return Object.values(lines).every((x) => x !== undefined) ? (lines as AgreementLines) : undefined;
+}
+
+/** The difference plots as pictures in the rows kept for them, PLOTS_PER_ROW across, within the printed width. */
+function placeDifferencePlots(wb: ExcelJS.Workbook, doc: DocumentSheet, study: ReturnType<typeof verificationFigures>, top: number, rowsEach: number, contentPoints: number): void {
+  const gap = 12;
+  const widthPx = (contentPoints * 96) / 72;
+  const ext = Math.min(PLOT_WIDTH * PLOT_ZOOM, (widthPx - gap * (PLOTS_PER_ROW - 1)) / PLOTS_PER_ROW);
+  const height = plotHeight();
+  study.forEach((s, i) => {
+    const lines = agreementLines(s.agreement);
+    if (!lines) return;
+    const pairs = s.observed.data.comparison.map((p) => ({ x: p.x, y: p.y, label: p.sample }));
+    const svg = differencePlotSvg({ title: `${s.analyte.analyte}: analyser B − analyser A (DEMO)`, pairs, agreement: lines, scale: AGREEMENT_SCALE, unit: s.analyte.unit, width: PLOT_WIDTH, id: `difference-${i + 1}` });
+    const image = wb.addImage({ buffer: svgToPng(svg, 2) as unknown as ExcelJS.Buffer, extension: 'png' });
+    const across = i % PLOTS_PER_ROW;
+    const row = top + Math.floor(i / PLOTS_PER_ROW) * rowsEach;
+    doc.ws.addImage(image, { tl: { col: colAt(doc, (across * (ext + gap) * 72) / 96), row: row - 1 }, ext: { width: ext, height: (height * ext) / PLOT_WIDTH }, editAs: 'oneCell' });
+  });
+}
+
+/** The fractional column (0-based, as exceljs anchors pictures) at a distance in points from the sheet's left edge. */
+function colAt(doc: DocumentSheet, points: number): number {
+  let left = 0;
+  for (let c = 1; ; c++) {
+    const w = columnPoints(doc.ws.getColumn(c).width ?? 9);
+    if (left + w > points) return c - 1 + (points - left) / w;
+    left += w;
+  }
+}
+
 /** EQA: raw data, mean and RMS bias, and the bias uncertainty. */
 function eqaSheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, 'EQA', `Leeway demo: external quality assessment, ${DEMO_ANALYSERS.candidate}`);
@@ -336,13 +673,18 @@ function uncertaintySheet(ctx: DemoContext): void {
   doc.finish();
 }
 
-/** Builds the demo workbook (in memory): eight sheets, each a printable document. */
+/** Builds the demo workbook (in memory): nine sheets, each a printable document. */
 export function buildDemoWorkbook(options: { mode?: FillMode; date?: string; paper?: Paper } = {}): ExcelJS.Workbook {
   const wb = newWorkbook();
   wb.creator = `Leeway ${VERSION}`;
   wb.title = `Leeway demo workbook — ${DEMO_MARKER}`;
   const ctx: DemoContext = { wb, figures: demoFigures(), mode: options.mode ?? 'values', date: options.date ?? today(), paper: options.paper ?? 'A4' };
-  for (const sheet of [summarySheet, specificationsSheet, replicationSheet, eqaSheet, comparisonSheet, performanceSheet, qcSheet, uncertaintySheet]) sheet(ctx);
+  for (const sheet of [summarySheet, specificationsSheet, replicationSheet, eqaSheet, comparisonSheet, verificationSheet, performanceSheet, qcSheet, uncertaintySheet]) sheet(ctx);
+  // The verification sheet reads the Comparison sheet's rows, so it is built after it and then placed after Replication.
+  const order = ['Summary', 'Specifications', 'Replication', 'Verification', 'EQA', 'Comparison', 'Performance', 'QC plan', 'Uncertainty'];
+  // exceljs orders sheets by each worksheet's orderNo (set by addWorksheet; not in its type declarations).
+  for (const ws of wb.worksheets as Array<ExcelJS.Worksheet & { orderNo: number }>) ws.orderNo = order.indexOf(ws.name) + 1;
+  if (wb.worksheets.map((w) => w.name).join() !== order.join()) throw new Error(`demo sheets out of order: ${wb.worksheets.map((w) => w.name).join(', ')}`);
   for (const ws of wb.worksheets) ws.views = [{ state: 'normal', zoomScale: 100 }];
   return wb;
 }
