@@ -32,7 +32,7 @@ import { QC_PLAN } from '../registry/catalogue/qc';
 import { differencePlotSvg } from '../charts/differencePlot';
 import type { AgreementLines } from '../charts/differencePlot';
 import { svgToPng } from './picture';
-import { columnPoints, LINE_POINTS, printable } from './document';
+import { CELL_PADDING, columnPoints, LINE_POINTS, longestWord, printable } from './document';
 import type { PrintLayout } from './document';
 
 export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live] [--date YYYY-MM-DD] [--paper A4|Letter]
@@ -195,20 +195,48 @@ function demoSheet(ctx: DemoContext, name: string, title: string): DocumentSheet
   return doc;
 }
 
+/** What the run size means, under the tables that show it. */
+const RUN_SIZE_NOTES = [
+  'Run size: the most patient results between QC events that keep the expected number of unreliable final results at most 1',
+  '(results in error beyond the allowance, reported before QC catches a shift; Parvin’s model, CLSI C24; LEEWAY.QC.PLAN’s Run size). 0: even one is too many; at most 1,000,000 is reported.',
+] as const;
+
+/**
+ * Headers over their columns (call after finish(), when the widths are set): over numbers set to
+ * the right; over text after the first column set in by one character as the text below it is,
+ * where the column has room for it.
+ */
+function alignHeaders(doc: DocumentSheet, header: number, first: number, last: number): void {
+  doc.ws.getRow(header).eachCell((cell, c) => {
+    let numbers = false;
+    for (let r = first; r <= last && !numbers; r++) numbers = typeof doc.ws.getCell(r, c).value === 'number';
+    const room = (doc.ws.getColumn(c).width ?? 0) - longestWord(String(cell.value), { bold: true }) - CELL_PADDING;
+    if (numbers) cell.alignment = { ...(cell.alignment ?? {}), horizontal: 'right' };
+    else if (c > 1 && room >= INDENT_UNITS) cell.alignment = { ...(cell.alignment ?? {}), horizontal: 'left', indent: 1 };
+  });
+}
+
+/** Units an indent of one takes (as the document layer counts it). */
+const INDENT_UNITS = 1.5;
+
 /** Summary first: what a reviewer reads. */
 function summarySheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, 'Summary', 'Leeway demo: verification summary');
-  doc.header(['Analyte', 'Specimen', 'Allowable total error % (desirable)', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met', 'QC rule', 'Controls per run', 'Runs', 'Detection', 'Target met', 'Expanded uncertainty % (k = 2)']);
+  const header = doc.header(['Analyte', 'Specimen', 'Allowable total error % (desirable)', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met', 'QC rule', 'Controls per run', 'Runs', 'Detection', 'Target met', 'Run size', 'Expanded uncertainty % (k = 2)']);
   for (const f of ctx.figures) {
     doc.line(
-      [f.data.analyte, f.data.specimen, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet), show(pick(f.qc, 'Rule')), show(pick(f.qc, 'Controls per run')), show(pick(f.qc, 'Runs')), show(pick(f.qc, 'Detection')), show(pick(f.qc, 'Target met')), show(f.expanded)],
-      { formats: [undefined, undefined, P2, P2, P2, P2, P2, '0.0', undefined, undefined, '0', '0', P3, undefined, P2] },
+      [f.data.analyte, f.data.specimen, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet), show(pick(f.qc, 'Rule')), show(pick(f.qc, 'Controls per run')), show(pick(f.qc, 'Runs')), show(pick(f.qc, 'Detection')), show(pick(f.qc, 'Target met')), show(pick(f.qc, 'Run size')), show(f.expanded)],
+      { formats: [undefined, undefined, P2, P2, P2, P2, P2, '0.0', undefined, undefined, '0', '0', P3, undefined, '#,##0', P2] },
     );
   }
+  const rows = doc.row - 1;
   doc.skip();
   doc.note('Observed total error = |bias| + 1.65·CV (LEEWAY.PERF.TOTAL); sigma = (allowable − |bias|)/CV (LEEWAY.PERF.SIGMA); tier met by total error (LEEWAY.PERF.TIER);');
   doc.note('QC rule: the simplest candidate reaching 90 % detection of the critical shift with ≤ 5 % false rejection (LEEWAY.QC.PLAN). Details on the other sheets.');
+  for (const n of RUN_SIZE_NOTES) doc.note(n);
+  doc.note('Precision claims, trueness and agreement of the new analyser: the Verification sheet.');
   doc.finish();
+  alignHeaders(doc, header, header + 1, rows);
 }
 
 /** Specifications: the fill planner, exactly as leeway fill writes a new sheet. */
@@ -441,6 +469,7 @@ function verificationSheet(ctx: DemoContext): void {
     doc.markSpan(r, 2);
   }
   const layout = doc.finish();
+  for (const [top, n] of [[precisionTop, materials.length * 2], [sigmaTop, materials.length], [truenessTop, truenessMaterials.length], [agreementTop, study.length]]) alignHeaders(doc, top - 1, top, top + n - 1);
   placeDifferencePlots(ctx.wb, doc, study, plotTop, plotRows, layout.contentPoints);
   // The agreement table and the first row of plots start a page, each further row of plots another
   // (each fits a page in any program that prints the sheet); then the sign-off is kept whole again.
@@ -652,12 +681,16 @@ function performanceSheet(ctx: DemoContext): void {
 /** QC plan. */
 function qcSheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, 'QC plan', 'Leeway demo: internal QC design');
-  const labels = ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met'];
-  doc.header(['Analyte', 'Allowable total error %', 'Bias %', 'CV %', 'Sigma', 'Critical shift (SD)', ...labels]);
-  for (const f of ctx.figures) doc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...labels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3] });
+  const labels = ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met', 'Run size'];
+  const header = doc.header(['Analyte', 'Allowable total error %', 'Bias %', 'CV %', 'Sigma', 'Critical shift (SD)', ...labels]);
+  for (const f of ctx.figures) doc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...labels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3, undefined, '#,##0'] });
+  const rows = doc.row - 1;
   doc.skip();
   doc.note('=LEEWAY.QC.SHIFT(allowable, bias, cv); =LEEWAY.QC.PLAN(allowable, bias, cv): target detection 0.90 at the critical shift, false rejection per run ≤ 0.05.');
+  for (const n of RUN_SIZE_NOTES) doc.note(n);
+  doc.note('=LEEWAY.QC.RUNSIZE(allowable, bias, cv, rule, controls per run) gives the same figure; LEEWAY.QC.RISK the expected number of unreliable final results at another run size.');
   doc.finish();
+  alignHeaders(doc, header, header + 1, rows);
 }
 
 /** Measurement uncertainty. */
