@@ -32,8 +32,7 @@ import { QC_PLAN } from '../registry/catalogue/qc';
 import { differencePlotSvg } from '../charts/differencePlot';
 import type { AgreementLines } from '../charts/differencePlot';
 import { svgToPng } from './picture';
-import { CELL_PADDING, columnPoints, LINE_POINTS, longestWord, printable } from './document';
-import type { PrintLayout } from './document';
+import { CELL_PADDING, columnPoints, longestWord } from './document';
 
 export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live] [--date YYYY-MM-DD] [--paper A4|Letter]
                                    build the demo workbook (invented data) in FILE (default leeway-demo.xlsx)`;
@@ -198,7 +197,7 @@ function demoSheet(ctx: DemoContext, name: string, title: string): DocumentSheet
 /** What the run size means, under the tables that show it. */
 const RUN_SIZE_NOTES = [
   'Run size: the most patient results between QC events that keep the expected number of unreliable final results at most 1',
-  '(results in error beyond the allowance, reported before QC catches a shift; Parvin’s model, CLSI C24; LEEWAY.QC.PLAN’s Run size). 0: even one is too many; at most 1,000,000 is reported.',
+  '(results in error beyond the allowance, reported before QC catches a shift; Parvin’s model, CLSI C24; LEEWAY.QC.PLAN’s Run size). 0: even one is too many; at most 1000000 is reported.',
 ] as const;
 
 /**
@@ -226,7 +225,7 @@ function summarySheet(ctx: DemoContext): void {
   for (const f of ctx.figures) {
     doc.line(
       [f.data.analyte, f.data.specimen, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet), show(pick(f.qc, 'Rule')), show(pick(f.qc, 'Controls per run')), show(pick(f.qc, 'Runs')), show(pick(f.qc, 'Detection')), show(pick(f.qc, 'Target met')), show(pick(f.qc, 'Run size')), show(f.expanded)],
-      { formats: [undefined, undefined, P2, P2, P2, P2, P2, '0.0', undefined, undefined, '0', '0', P3, undefined, '#,##0', P2] },
+      { formats: [undefined, undefined, P2, P2, P2, P2, P2, '0.0', undefined, undefined, '0', '0', P3, undefined, '0', P2] },
     );
   }
   const rows = doc.row - 1;
@@ -471,44 +470,14 @@ function verificationSheet(ctx: DemoContext): void {
   const layout = doc.finish();
   for (const [top, n] of [[precisionTop, materials.length * 2], [sigmaTop, materials.length], [truenessTop, truenessMaterials.length], [agreementTop, study.length]]) alignHeaders(doc, top - 1, top, top + n - 1);
   placeDifferencePlots(ctx.wb, doc, study, plotTop, plotRows, layout.contentPoints);
-  // The agreement table and the first row of plots start a page, each further row of plots another
-  // (each fits a page in any program that prints the sheet); then the sign-off is kept whole again.
+  // The agreement table and the first row of plots start a page, each further row of plots another: each fits a page in
+  // any program that prints the sheet, so no picture is cut by a page break.
   for (let k = 0; k < Math.ceil(study.length / PLOTS_PER_ROW); k++) doc.ws.getRow(k === 0 ? agreementTop - 3 : plotTop + k * plotRows - 1).addPageBreak();
-  keepBlocksWhole(doc.ws, layout, [[layout.signOffRow, layout.lastRow]]);
-}
-
-/**
- * A manual page break before each block that would otherwise be split across pages, the pages
- * estimated as the document layer estimates them (row heights, Excel's fit-to-width scale, a
- * twentieth of a page in reserve, the repeated header row from where it stands), with the breaks
- * already set.
- */
-function keepBlocksWhole(ws: ExcelJS.Worksheet, layout: PrintLayout, blocks: ReadonlyArray<[number, number]>): void {
-  const page = (printable(layout.paper, layout.orientation).height / layout.scale) * 0.95;
-  const height = (r: number): number => ws.getRow(r).height ?? LINE_POINTS;
-  const title = (r: number): number => (layout.titleRow !== undefined && r > layout.titleRow ? height(layout.titleRow) : 0);
-  const breaks = new Set(ws.model.rowBreaks.map((b) => b.id));
-  let used = 0;
-  for (let r = 1; r <= layout.lastRow; r++) {
-    const block = blocks.find(([first]) => first === r);
-    if (block && used > title(r)) {
-      let need = 0;
-      for (let k = block[0]; k <= block[1]; k++) need += height(k);
-      if (used + need > page && !breaks.has(r - 1)) {
-        ws.getRow(r - 1).addPageBreak();
-        breaks.add(r - 1);
-        used = title(r);
-      }
-    }
-    if (used + height(r) > page) used = title(r);
-    used += height(r);
-    if (breaks.has(r)) used = title(r + 1);
-  }
 }
 
 function writeVerificationRaw(doc: DocumentSheet, list: ReadonlyArray<{ analyte: VerificationAnalyte; m: VerificationMaterial }>): Array<[number, number]> {
   doc.text('Raw data (invented)', { bold: true });
-  doc.printTitle(doc.header(['Analyte', 'Material', 'Day', 'Result']));
+  doc.header(['Analyte', 'Material', 'Day', 'Result']);
   const spans = list.map(({ analyte, m }) => {
     const first = doc.row;
     const fmt = levelFormat(m.level);
@@ -683,7 +652,7 @@ function qcSheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, 'QC plan', 'Leeway demo: internal QC design');
   const labels = ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met', 'Run size'];
   const header = doc.header(['Analyte', 'Allowable total error %', 'Bias %', 'CV %', 'Sigma', 'Critical shift (SD)', ...labels]);
-  for (const f of ctx.figures) doc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...labels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3, undefined, '#,##0'] });
+  for (const f of ctx.figures) doc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...labels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3, undefined, '0'] });
   const rows = doc.row - 1;
   doc.skip();
   doc.note('=LEEWAY.QC.SHIFT(allowable, bias, cv); =LEEWAY.QC.PLAN(allowable, bias, cv): target detection 0.90 at the critical shift, false rejection per run ≤ 0.05.');
