@@ -16,6 +16,10 @@ import { writePlan } from './xlsx';
 import { DocumentSheet, planDocument } from './document';
 import type { DocValue, Paper } from './document';
 import { readPaper } from './fill';
+import { svgToPng } from './picture';
+import { CELL_PADDING, columnPoints, longestWord } from './document';
+import { differencePlotSvg } from '../charts/differencePlot';
+import type { AgreementLines } from '../charts/differencePlot';
 import { evaluate, findFunction } from '../registry';
 import type { Arg } from '../registry';
 import type { OutCell } from '../registry/types';
@@ -29,10 +33,6 @@ import { assess } from '../engine/assess';
 import type { Fig } from '../engine/assess';
 import type { QcPlan } from '../engine/qc/plan';
 import { QC_PLAN } from '../registry/catalogue/qc';
-import { differencePlotSvg } from '../charts/differencePlot';
-import type { AgreementLines } from '../charts/differencePlot';
-import { svgToPng } from './picture';
-import { CELL_PADDING, columnPoints, longestWord } from './document';
 
 export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live] [--date YYYY-MM-DD] [--paper A4|Letter]
                                    build the demo workbook (invented data) in FILE (default leeway-demo.xlsx)`;
@@ -297,6 +297,43 @@ function replicationSheet(ctx: DemoContext): void {
   doc.finish();
 }
 
+/** EQA: raw data, mean and RMS bias, and the bias uncertainty. */
+function eqaSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'EQA', `Leeway demo: external quality assessment, ${DEMO_ANALYSERS.candidate}`);
+  writeResultsAndRaw(doc, ctx.figures, {
+    resultsHeader: ['Analyte', 'Mean bias %', 'RMS bias %', `u(bias) % (u_ref ${DEMO_U_REF} %, invented)`, 'Formula'],
+    rawHeader: ['Analyte', 'Sample', 'Assigned value', 'Result', 'Bias %'],
+    raw: (f) => {
+      const fmt = levelFormat(f.data.level);
+      return f.data.eqa.map((x) => ({ values: [f.data.analyte, x.sample, x.target, x.result, (100 * (x.result - x.target)) / x.target], formats: [undefined, undefined, fmt, fmt, P2] }));
+    },
+    results: (f, first, last) => ({
+      values: [f.data.analyte, show(f.bias), show(f.rmsBias), show(f.uBias), `=LEEWAY.DATA.BIAS(D${first}:D${last},C${first}:C${last})`],
+      formats: [undefined, P2, P2, P2],
+    }),
+  });
+  doc.finish();
+}
+
+/** Method comparison: Passing–Bablok at the medical decision level. */
+function comparisonSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, 'Comparison', `Leeway demo: method comparison, x = ${DEMO_ANALYSERS.current}, y = ${DEMO_ANALYSERS.candidate}`);
+  const labels = ['Slope', 'Slope low 95%', 'Slope high 95%', 'Intercept', 'Intercept low 95%', 'Intercept high 95%', 'Bias at level', 'Bias at level %'];
+  writeResultsAndRaw(doc, ctx.figures, {
+    resultsHeader: ['Analyte', 'Level', ...labels, 'Formula'],
+    rawHeader: ['Analyte', 'Sample', 'x: analyser A', 'y: analyser B'],
+    raw: (f) => {
+      const fmt = levelFormat(f.data.level);
+      return f.data.comparison.map((x) => ({ values: [f.data.analyte, x.sample, x.x, x.y], formats: [undefined, undefined, fmt, fmt] }));
+    },
+    results: (f, first, last, row) => ({
+      values: [f.data.analyte, f.data.level, ...labels.map((l) => show(pick(f.compare, l))), `=LEEWAY.DATA.COMPARE(C${first}:C${last},D${first}:D${last},"passing-bablok",B${row})`],
+      formats: [undefined, undefined, ...labels.map(() => P3)],
+    }),
+  });
+  doc.finish();
+}
+
 /** Position (1-based) of a label in a labelled spill: the k of =INDEX(LEEWAY.NAME(…),2,k). */
 function spillIndex(name: string, label: string): number {
   const k = findFunction(name)?.labels?.indexOf(label) ?? -1;
@@ -339,7 +376,7 @@ function cvLimitsOf(cv: OutCell | undefined, df: OutCell | undefined): Map<strin
 }
 
 /** Every figure of the verification study: precision, CV limits, sigma against the analyte's allowance in use, trueness. */
-export function verificationFigures(figures: readonly Observed[] = demoFigures()): Array<{ analyte: VerificationAnalyte; observed: Observed; materials: MaterialFigures[]; agreement: Map<string, OutCell> }> {
+function verificationFigures(figures: readonly Observed[]): Array<{ analyte: VerificationAnalyte; observed: Observed; materials: MaterialFigures[]; agreement: Map<string, OutCell> }> {
   return demoVerification().map((a) => {
     const observed = figures.find((f) => f.data.analyte === a.analyte);
     if (!observed) throw new Error(`the verification study names ${a.analyte}, which is not a demo analyte`);
@@ -432,7 +469,7 @@ function verificationSheet(ctx: DemoContext): void {
     'Sigma with its confidence limits',
     ['Analyte', 'Material', 'Allowable total error % (desirable)', 'Bias % (EQA)', 'u(bias) %', 'Within-lab CV %', 'Within-lab df', 'Sigma', 'Sigma low 95%', 'Sigma high 95%'],
     materials.length,
-    ['Sigma = (allowable − |bias|)/CV with limits from the uncertainty of the CV (its df) and of the bias (LEEWAY.PERF.SIGMALIMITS). Bias and u(bias) are the analyte’s EQA figures (EQA sheet).'],
+    ['Sigma = (allowable − |bias|)/CV with limits from the uncertainty of the CV (its df) and of the bias (LEEWAY.PERF.SIGMALIMITS). Bias (EQA) and u(bias) are the analyte’s figures on the Performance and Uncertainty sheets.'],
   );
   const truenessMaterials = materials.filter((x) => x.mf.trueness);
   const truenessTop = tableAt(
@@ -598,43 +635,6 @@ function colAt(doc: DocumentSheet, points: number): number {
     if (left + w > points) return c - 1 + (points - left) / w;
     left += w;
   }
-}
-
-/** EQA: raw data, mean and RMS bias, and the bias uncertainty. */
-function eqaSheet(ctx: DemoContext): void {
-  const doc = demoSheet(ctx, 'EQA', `Leeway demo: external quality assessment, ${DEMO_ANALYSERS.candidate}`);
-  writeResultsAndRaw(doc, ctx.figures, {
-    resultsHeader: ['Analyte', 'Mean bias %', 'RMS bias %', `u(bias) % (u_ref ${DEMO_U_REF} %, invented)`, 'Formula'],
-    rawHeader: ['Analyte', 'Sample', 'Assigned value', 'Result', 'Bias %'],
-    raw: (f) => {
-      const fmt = levelFormat(f.data.level);
-      return f.data.eqa.map((x) => ({ values: [f.data.analyte, x.sample, x.target, x.result, (100 * (x.result - x.target)) / x.target], formats: [undefined, undefined, fmt, fmt, P2] }));
-    },
-    results: (f, first, last) => ({
-      values: [f.data.analyte, show(f.bias), show(f.rmsBias), show(f.uBias), `=LEEWAY.DATA.BIAS(D${first}:D${last},C${first}:C${last})`],
-      formats: [undefined, P2, P2, P2],
-    }),
-  });
-  doc.finish();
-}
-
-/** Method comparison: Passing–Bablok at the medical decision level. */
-function comparisonSheet(ctx: DemoContext): void {
-  const doc = demoSheet(ctx, 'Comparison', `Leeway demo: method comparison, x = ${DEMO_ANALYSERS.current}, y = ${DEMO_ANALYSERS.candidate}`);
-  const labels = ['Slope', 'Slope low 95%', 'Slope high 95%', 'Intercept', 'Intercept low 95%', 'Intercept high 95%', 'Bias at level', 'Bias at level %'];
-  writeResultsAndRaw(doc, ctx.figures, {
-    resultsHeader: ['Analyte', 'Level', ...labels, 'Formula'],
-    rawHeader: ['Analyte', 'Sample', 'x: analyser A', 'y: analyser B'],
-    raw: (f) => {
-      const fmt = levelFormat(f.data.level);
-      return f.data.comparison.map((x) => ({ values: [f.data.analyte, x.sample, x.x, x.y], formats: [undefined, undefined, fmt, fmt] }));
-    },
-    results: (f, first, last, row) => ({
-      values: [f.data.analyte, f.data.level, ...labels.map((l) => show(pick(f.compare, l))), `=LEEWAY.DATA.COMPARE(C${first}:C${last},D${first}:D${last},"passing-bablok",B${row})`],
-      formats: [undefined, undefined, ...labels.map(() => P3)],
-    }),
-  });
-  doc.finish();
 }
 
 /** Performance against the desirable specification. */
