@@ -421,17 +421,24 @@ function comparisonRows(ctx: DemoContext): Map<string, [number, number]> {
   return spans;
 }
 
-/** A sheet being written: cells filled by address, each computed figure's formula text kept for the list at the end. */
+/** The verification study's two sheets: the figures, and the raw data with every figure's formula. */
+const VERIFICATION_SHEET = 'Verification';
+const VERIFICATION_DATA_SHEET = 'Verification data';
+/** How a formula on the figures sheet names a range of the data sheet. */
+const DATA_REF = `'${VERIFICATION_DATA_SHEET}'!`;
+
+/** The figures sheet being written: cells filled by address, each computed figure's formula text kept for the list. */
+/** Formulas per table row: precision (CV, df, CV low and high, limit, verdict), sigma (allowable, CV, df, sigma and its limits), trueness, agreement. */
+const FORMULAS_PER_ROW = { precision: 6, sigma: 6, trueness: 8, agreement: 11 } as const;
+
 class FormulaLog {
   readonly lines: Array<[string, string]> = [];
   constructor(private readonly doc: DocumentSheet) {}
 
   /** A figure in a cell, with the formula that computes it (none for an input). */
-  put(row: number, column: number, value: DocValue, format?: string, formula?: string): string {
+  put(row: number, column: number, value: DocValue, format?: string, formula?: string): void {
     this.doc.put(row, column, value, { format });
-    const address = `${columnLetters(column)}${row}`;
-    if (formula) this.lines.push([address, formula]);
-    return address;
+    if (formula) this.lines.push([`${columnLetters(column)}${row}`, formula]);
   }
 }
 
@@ -446,13 +453,17 @@ function tableAt(doc: DocumentSheet, heading: string, header: readonly string[],
   return first;
 }
 
-/** The verification study: precision claims, CV limits, sigma, trueness, agreement with its difference plots, the raw data and every formula. */
+/**
+ * The verification study on two sheets: precision claims, CV limits, sigma, trueness, every figure's
+ * formula, agreement with its difference plots; and the invented raw data.
+ */
 function verificationSheet(ctx: DemoContext): void {
-  const doc = demoSheet(ctx, 'Verification', `Leeway demo: verification of ${DEMO_ANALYSERS.candidate} before it reports patient results`);
+  const doc = demoSheet(ctx, VERIFICATION_SHEET, `Leeway demo: verification of ${DEMO_ANALYSERS.candidate} before it reports patient results`);
+  const data = demoSheet(ctx, VERIFICATION_DATA_SHEET, 'Leeway demo: verification study, raw data (invented)');
   const study = verificationFigures(ctx.figures);
   const log = new FormulaLog(doc);
   const materials = study.flatMap((s) => s.materials.map((mf) => ({ s, mf })));
-  doc.text(`Replication on two invented control materials per analyte, ${REPLICATION_DAYS} days × ${REPLICATES_PER_DAY} replicates each (CLSI EP15-A3 design); claims and assigned values invented. Every formula is listed after the raw data.`);
+  doc.text(`Replication on two invented control materials per analyte, ${REPLICATION_DAYS} days × ${REPLICATES_PER_DAY} replicates each (CLSI EP15-A3 design); claims and assigned values invented. The raw data: the ${VERIFICATION_DATA_SHEET} sheet.`);
   doc.skip();
   const precisionTop = tableAt(
     doc,
@@ -479,6 +490,12 @@ function verificationSheet(ctx: DemoContext): void {
     truenessMaterials.length,
     ['Verification interval = assigned ± t·√(SE² + u(assigned)²); "yes" when the mean lies inside it (LEEWAY.VERIFY.TRUENESS).'],
   );
+  const formulaCount =
+    materials.length * 2 * FORMULAS_PER_ROW.precision + materials.length * FORMULAS_PER_ROW.sigma + truenessMaterials.length * FORMULAS_PER_ROW.trueness + study.length * FORMULAS_PER_ROW.agreement;
+  doc.text('Formulas of the figures on this sheet (as text: each figure is the registry’s value of its formula; with the add-in, type it into that cell to recompute)', { bold: true });
+  doc.header(['Cell', 'Formula']);
+  const formulaTop = doc.row;
+  doc.skip(formulaCount + 1);
   const agreementTop = tableAt(
     doc,
     `Agreement of ${DEMO_ANALYSERS.candidate} with ${DEMO_ANALYSERS.current} (the Comparison sheet’s patient samples)`,
@@ -489,32 +506,37 @@ function verificationSheet(ctx: DemoContext): void {
   const plotRows = Math.ceil((plotHeight() * PLOT_ZOOM) / ROW_PX) + 1;
   const plotTop = doc.row;
   doc.skip(plotRows * Math.ceil(study.length / PLOTS_PER_ROW));
-  doc.skip();
-  const raw = writeVerificationRaw(doc, materials.map((x) => ({ analyte: x.s.analyte, m: x.mf.m })));
+  const raw = writeVerificationRaw(data, materials.map((x) => ({ analyte: x.s.analyte, m: x.mf.m })));
   // The tables, now that the raw data rows are known.
   materials.forEach(({ s, mf }, i) => precisionRows(log, precisionTop + 2 * i, s.analyte.analyte, mf, raw[i]));
   materials.forEach(({ s, mf }, i) => sigmaRow(log, sigmaTop + i, s, mf, precisionTop + 2 * i + 1));
   truenessMaterials.forEach(({ s, mf }, i) => truenessRow(log, truenessTop + i, s.analyte, mf, raw[materials.findIndex((x) => x.mf === mf)]));
   const comparison = comparisonRows(ctx);
   study.forEach((s, i) => agreementRow(log, agreementTop + i, s.analyte.analyte, s.agreement, comparison.get(s.analyte.analyte)));
-  doc.text('Formulas (as text: each cell’s figure is the registry’s value of this formula; with the add-in, type it into a cell to recompute)', { bold: true });
-  doc.header(['Cell', 'Formula']);
-  for (const [address, formula] of log.lines) {
-    const r = doc.line([address]);
-    doc.put(r, 2, formula);
-    doc.markSpan(r, 2);
-  }
+  if (log.lines.length !== formulaCount) throw new Error(`the verification sheet has ${log.lines.length} formulas, not ${formulaCount}`);
+  log.lines.forEach(([address, formula], i) => {
+    doc.put(formulaTop + i, 1, address);
+    doc.put(formulaTop + i, 2, formula);
+    doc.markSpan(formulaTop + i, 2);
+  });
+  const dataLayout = data.finish();
+  // The raw data run over several pages, and programs fit different numbers of rows on one (their fit-to-width scales
+  // differ): the data sheet's sign-off starts a page of its own, so none splits it.
+  if (!dataLayout.pageBreakBefore) data.ws.getRow(dataLayout.signOffRow - 1).addPageBreak();
   const layout = doc.finish();
   for (const [top, n] of [[precisionTop, materials.length * 2], [sigmaTop, materials.length], [truenessTop, truenessMaterials.length], [agreementTop, study.length]]) alignHeaders(doc, top - 1, top, top + n - 1);
   placeDifferencePlots(ctx.wb, doc, study, plotTop, plotRows, layout.contentPoints);
-  // The agreement table and the first row of plots start a page, each further row of plots another: each fits a page in
-  // any program that prints the sheet, so no picture is cut by a page break.
-  for (let k = 0; k < Math.ceil(study.length / PLOTS_PER_ROW); k++) doc.ws.getRow(k === 0 ? agreementTop - 3 : plotTop + k * plotRows - 1).addPageBreak();
+  // Page breaks where each part fits a page in any program that prints the sheet (the fit-to-width scale differs between
+  // them): the precision table with the banner; sigma and trueness; the formulas; the agreement table with the first
+  // row of plots; each further row of plots, the last with the sign-off. No picture is cut by a page break.
+  const breaks = [sigmaTop - 3, formulaTop - 3, agreementTop - 3];
+  for (let k = 1; k < Math.ceil(study.length / PLOTS_PER_ROW); k++) breaks.push(plotTop + k * plotRows - 1);
+  for (const r of breaks) doc.ws.getRow(r).addPageBreak();
 }
 
 function writeVerificationRaw(doc: DocumentSheet, list: ReadonlyArray<{ analyte: VerificationAnalyte; m: VerificationMaterial }>): Array<[number, number]> {
   doc.text('Raw data (invented)', { bold: true });
-  doc.header(['Analyte', 'Material', 'Day', 'Result']);
+  doc.printTitle(doc.header(['Analyte', 'Material', 'Day', 'Result']));
   const spans = list.map(({ analyte, m }) => {
     const first = doc.row;
     const fmt = levelFormat(m.level);
@@ -526,7 +548,7 @@ function writeVerificationRaw(doc: DocumentSheet, list: ReadonlyArray<{ analyte:
 }
 
 function precisionRows(log: FormulaLog, row: number, analyte: string, mf: MaterialFigures, [first, last]: [number, number]): void {
-  const data = `D${first}:D${last},C${first}:C${last}`;
+  const data = `${DATA_REF}D${first}:D${last},${DATA_REF}C${first}:C${last}`;
   const rep = row;
   const wl = row + 1;
   const verifyArgs = `${data},H${rep},H${wl},${VERIFICATION_MATERIALS}`;
@@ -571,7 +593,7 @@ function truenessRow(log: FormulaLog, r: number, a: VerificationAnalyte, mf: Mat
   log.put(r, 3, a.unit);
   log.put(r, 4, assigned.value, fmt);
   log.put(r, 5, assigned.u, fmt);
-  const args = `D${first}:D${last},C${first}:C${last},D${r},E${r},1`;
+  const args = `${DATA_REF}D${first}:D${last},${DATA_REF}C${first}:C${last},D${r},E${r},1`;
   const formats: Record<(typeof TRUENESS_LABELS)[number], string | undefined> = { Mean: P3, Bias: P3, 'Bias %': P2, 'Standard error': P3, df: '0.0', 'Verification low': P3, 'Verification high': P3, Verified: undefined };
   TRUENESS_LABELS.forEach((l, k) => log.put(r, 6 + k, show(pick(mf.trueness, l)), formats[l], indexFormula('VERIFY.TRUENESS', args, l)));
 }
@@ -675,7 +697,7 @@ function uncertaintySheet(ctx: DemoContext): void {
   doc.finish();
 }
 
-/** Builds the demo workbook (in memory): nine sheets, each a printable document. */
+/** Builds the demo workbook (in memory): ten sheets, each a printable document. */
 export function buildDemoWorkbook(options: { mode?: FillMode; date?: string; paper?: Paper } = {}): ExcelJS.Workbook {
   const wb = newWorkbook();
   wb.creator = `Leeway ${VERSION}`;
@@ -683,7 +705,7 @@ export function buildDemoWorkbook(options: { mode?: FillMode; date?: string; pap
   const ctx: DemoContext = { wb, figures: demoFigures(), mode: options.mode ?? 'values', date: options.date ?? today(), paper: options.paper ?? 'A4' };
   for (const sheet of [summarySheet, specificationsSheet, replicationSheet, eqaSheet, comparisonSheet, verificationSheet, performanceSheet, qcSheet, uncertaintySheet]) sheet(ctx);
   // The verification sheet reads the Comparison sheet's rows, so it is built after it and then placed after Replication.
-  const order = ['Summary', 'Specifications', 'Replication', 'Verification', 'EQA', 'Comparison', 'Performance', 'QC plan', 'Uncertainty'];
+  const order = ['Summary', 'Specifications', 'Replication', VERIFICATION_SHEET, VERIFICATION_DATA_SHEET, 'EQA', 'Comparison', 'Performance', 'QC plan', 'Uncertainty'];
   // exceljs orders sheets by each worksheet's orderNo (set by addWorksheet; not in its type declarations).
   for (const ws of wb.worksheets as Array<ExcelJS.Worksheet & { orderNo: number }>) ws.orderNo = order.indexOf(ws.name) + 1;
   if (wb.worksheets.map((w) => w.name).join() !== order.join()) throw new Error(`demo sheets out of order: ${wb.worksheets.map((w) => w.name).join(', ')}`);

@@ -14,7 +14,7 @@ import { evaluate, findFunction } from '../../src/registry';
 import type { Arg } from '../../src/registry';
 import { relClose } from '../support/prng';
 
-const SHEETS = ['Summary', 'Specifications', 'Replication', 'Verification', 'EQA', 'Comparison', 'Performance', 'QC plan', 'Uncertainty'];
+const SHEETS = ['Summary', 'Specifications', 'Replication', 'Verification', 'Verification data', 'EQA', 'Comparison', 'Performance', 'QC plan', 'Uncertainty'];
 
 async function build(): Promise<{ file: string; wb: ExcelJS.Workbook; dir: string }> {
   const dir = tempDir('demo');
@@ -130,8 +130,8 @@ function tableUnder(ws: ExcelJS.Worksheet, heading: string): { header: string[];
   const header: string[] = [];
   ws.getRow(h).eachCell((c) => void header.push(String(c.value)));
   const rows: ExcelJS.Row[] = [];
-  // Table rows have a second cell; the note under a table is a line in the first cell alone.
-  for (let r = h + 1; ws.getRow(r).getCell(2).value !== null; r++) rows.push(ws.getRow(r));
+  // Table rows have a second cell of their own; a note under a table is a line in the first cell alone (merged across the row when it wraps).
+  for (let r = h + 1; ws.getRow(r).getCell(2).value !== null && !ws.getRow(r).getCell(2).isMerged; r++) rows.push(ws.getRow(r));
   return { header, rows, top: h + 1 };
 }
 
@@ -170,7 +170,7 @@ function splitArgs(text: string): string[] {
 function argOf(wb: ExcelJS.Workbook, sheet: ExcelJS.Worksheet, text: string): Arg {
   if (/^".*"$/.test(text)) return text.slice(1, -1);
   if (/^-?\d+(\.\d+)?$/.test(text)) return Number(text);
-  const m = /^(?:([A-Za-z ]+)!)?([A-Z]+)(\d+)(?::([A-Z]+)(\d+))?$/.exec(text);
+  const m = /^(?:'?([A-Za-z ]+)'?!)?([A-Z]+)(\d+)(?::(?:'?[A-Za-z ]+'?!)?([A-Z]+)(\d+))?$/.exec(text);
   if (!m) throw new Error(`cannot read the argument ${text}`);
   const ws = m[1] ? wb.getWorksheet(m[1])! : sheet;
   const value = (r: number): Arg => ws.getCell(`${m[2]}${r}`).value as Arg;
@@ -300,7 +300,7 @@ describe('leeway demo: the verification sheet', () => {
     }
   });
 
-  test('every listed formula, computed by the registry from the workbook’s own cells, gives the figure in its cell', () => {
+  test('every figure’s formula, listed on the sheet and computed by the registry from the workbook’s own cells, gives the figure in its cell', () => {
     const head = rowOf(ws, 'Cell');
     expect(ws.getRow(head).getCell(2).value).toBe('Formula');
     let checked = 0;
@@ -312,6 +312,8 @@ describe('leeway demo: the verification sheet', () => {
       expect([address, evaluateFormula(wb, ws, formula)]).toEqual([address, ws.getCell(address).value]);
       checked++;
     }
+    // The replication results are read from the Verification data sheet.
+    expect(String(ws.getRow(head + 1).getCell(2).value)).toContain("'Verification data'!D");
     // Every computed figure of the four tables has its formula: 6 per precision row, 6 per sigma row, 8 per trueness row, 11 per agreement row.
     expect(checked).toBe(12 * 6 + 6 * 6 + 3 * 8 + 3 * 11);
     expect(cells.size).toBe(checked);

@@ -173,7 +173,7 @@ describeIf('printed through LibreOffice: leeway demo', () => {
   test('page header with the demo marker, footer on every page; one sign-off per sheet', () => {
     expectHeaderFooter(demo.pages, (i) => `Leeway demo — ${/Leeway demo — ([A-Za-z ]+?)\s{2,}/.exec(demo.pages[i])![1].trim()}`, true);
     expectSignOffs(demo.pages, demo.wb.worksheets.length);
-    expect(demo.wb.worksheets).toHaveLength(9);
+    expect(demo.wb.worksheets).toHaveLength(10);
   });
 
   test('nothing is cut and no text runs into another', () => {
@@ -181,7 +181,7 @@ describeIf('printed through LibreOffice: leeway demo', () => {
     expect(overlappingWords(demo.words)).toEqual([]);
   });
 
-  test('the verification sheet: the agreement table starts a page with the first two difference plots printed on it, the third on the next page', () => {
+  test('the verification sheet: the agreement table starts a page with the first two difference plots printed on it, the third on the next page with the sign-off', () => {
     const sheetOf = (p: string): string | undefined => /Leeway demo — ([A-Za-z ]+?)\s{2,}/.exec(p)?.[1].trim();
     const pages = demo.pages.map((p, i) => ({ p, n: i + 1 })).filter(({ p }) => sheetOf(p) === 'Verification');
     expect(pages.length).toBeGreaterThanOrEqual(3);
@@ -199,5 +199,6 @@ describeIf('printed through LibreOffice: leeway demo', () => {
     expect(onPage(agreement.n + 1)).toBeGreaterThanOrEqual(1);
     expect(new Set(images.map((im) => im.object)).size).toBe(3);
     for (const im of images) expect(sheetOf(demo.pages[im.page - 1])).toBe('Verification');
+    expect(demo.pages[agreement.n]).toMatch(/Approved by/);
   });
 });
