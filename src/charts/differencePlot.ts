@@ -48,6 +48,8 @@ export interface DifferencePlotInput {
   readonly scale?: 'absolute' | 'percent';
   /** Unit of the results, for the axis names ("mmol/L"). */
   readonly unit?: string;
+  /** Decimals of the values named beside the lines (as the figures are shown elsewhere, 0–6); default about three significant digits. */
+  readonly decimals?: number;
   /** Confidence of the bands, for the key; default 0.95. */
   readonly confidence?: number;
   /** Width in px: 288–320 fits the task pane; 480–1200 for print. Default 320, accepted 240–4000. */
@@ -77,10 +79,10 @@ function textWidth(text: string, fontSize: number): number {
   return Array.from(text).length * CHAR_EM * fontSize;
 }
 
-/** A number for a label: about three significant digits, a true minus sign. */
-export function showValue(v: number): string {
+/** A number for a label: `decimals` decimals, or about three significant digits; a true minus sign. */
+export function showValue(v: number, decimals?: number): string {
   const a = Math.abs(v);
-  const digits = a === 0 ? 2 : Math.max(0, Math.min(6, 2 - Math.floor(Math.log10(a))));
+  const digits = decimals ?? (a === 0 ? 2 : Math.max(0, Math.min(6, 2 - Math.floor(Math.log10(a)))));
   const s = v.toFixed(digits);
   return (/^-0(\.0+)?$/.test(s) ? s.slice(1) : s).replace('-', '−');
 }
@@ -136,6 +138,8 @@ function spread(ys: number[], gap: number, lo: number, hi: number): number[] {
 export function differencePlotSvg(input: DifferencePlotInput): string {
   const W = input.width ?? 320;
   if (!(W >= 240 && W <= 4000)) throw new RangeError(`plot width must be 240 to 4000 px (got ${W})`);
+  const decimals = input.decimals;
+  if (decimals !== undefined && !(Number.isInteger(decimals) && decimals >= 0 && decimals <= 6)) throw new RangeError(`decimals must be a whole number from 0 to 6 (got ${decimals})`);
   const scale = input.scale ?? 'absolute';
   const a = input.agreement;
   const figures = Object.entries(a) as Array<[keyof AgreementLines, number]>;
@@ -183,7 +187,7 @@ export function differencePlotSvg(input: DifferencePlotInput): string {
     { kind: 'mean', name: 'mean', value: a.meanDifference, low: a.meanDifferenceLow, high: a.meanDifferenceHigh },
     { kind: 'lower', name: 'lower', value: a.lowerLimit, low: a.lowerLimitLow, high: a.lowerLimitHigh },
   ] as const;
-  const lineTexts = lines.map((l) => `${l.name} ${showValue(l.value)}`);
+  const lineTexts = lines.map((l) => `${l.name} ${showValue(l.value, decimals)}`);
 
   const top = pad + fsTitle + 10;
   const left = pad + fsText + 6 + Math.max(...yTickTexts.map((t) => textWidth(t, fsText))) + 5;

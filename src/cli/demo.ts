@@ -641,7 +641,7 @@ function placeDifferencePlots(wb: ExcelJS.Workbook, doc: DocumentSheet, study: R
     const lines = agreementLines(s.agreement);
     if (!lines) return;
     const pairs = s.observed.data.comparison.map((p) => ({ x: p.x, y: p.y, label: p.sample }));
-    const svg = differencePlotSvg({ title: `${s.analyte.analyte}: analyser B − analyser A (DEMO)`, pairs, agreement: lines, scale: AGREEMENT_SCALE, unit: s.analyte.unit, width: PLOT_WIDTH, id: `difference-${i + 1}` });
+    const svg = differencePlotSvg({ title: `${s.analyte.analyte}: analyser B − analyser A (DEMO)`, pairs, agreement: lines, scale: AGREEMENT_SCALE, unit: s.analyte.unit, decimals: 2, width: PLOT_WIDTH, id: `difference-${i + 1}` });
     const image = wb.addImage({ buffer: svgToPng(svg, 2) as unknown as ExcelJS.Buffer, extension: 'png' });
     const across = i % PLOTS_PER_ROW;
     const row = top + Math.floor(i / PLOTS_PER_ROW) * rowsEach;

@@ -182,6 +182,16 @@ describe('the difference plot as SVG', () => {
     expect(svg).not.toMatch(/NaN|Infinity/);
   });
 
+  test('the values beside the lines with the decimals asked for (as the table beside the plot shows them)', async () => {
+    const a = agreementOf(ps, 'percent');
+    const els = await elements(differencePlotSvg({ title: 't', pairs: ps, agreement: a, scale: 'percent', decimals: 2 }));
+    expect(byClass(els, 'line-label').map((l) => l.text)).toEqual([`upper ${showValue(a.upperLimit, 2)}`, `mean ${showValue(a.meanDifference, 2)}`, `lower ${showValue(a.lowerLimit, 2)}`]);
+    expect(showValue(-1.666, 2)).toBe('−1.67');
+    expect(showValue(0.696, 2)).toBe('0.70');
+    expect(showValue(-0.001, 2)).toBe('0.00');
+    expect(() => differencePlotSvg({ title: 't', pairs: ps, agreement: a, decimals: 1.5 })).toThrow(/decimals/);
+  });
+
   test('refuses a width out of range, a non-finite pair or figure, and a percent difference of a pair with mean 0', () => {
     const a = agreementOf(ps, 'absolute');
     expect(() => differencePlotSvg({ title: 't', pairs: ps, agreement: a, width: 100 })).toThrow(/width/);
