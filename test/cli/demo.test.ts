@@ -332,7 +332,8 @@ describe('leeway demo: the verification sheet', () => {
       expect(m.extension).toBe('png');
       expect(m.buffer.subarray(1, 4).toString('latin1')).toBe('PNG');
       const range = image.range as unknown as { tl: { nativeCol: number; nativeColOff: number }; ext: { width: number } };
-      // Right edge in pixels (column widths at 7 px per unit + 5, an EMU is 1/9525 px) inside the sheet's used columns.
+      // Right edge in pixels inside the sheet's used columns: column widths to pixels by the rule the document layer uses
+      // (columnPoints, Excel's own rule); 914,400 EMU per inch at 96 px per inch is 9525 EMU per pixel (ECMA-376, DrawingML).
       let left = 0;
       for (let c = 1; c <= range.tl.nativeCol; c++) left += Math.trunc(((256 * ws.getColumn(c).width! + Math.trunc(128 / 7)) / 256) * 7);
       left += range.tl.nativeColOff / 9525;
