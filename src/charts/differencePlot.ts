@@ -87,12 +87,19 @@ export function showValue(v: number, decimals?: number): string {
   return (/^-0(\.0+)?$/.test(s) ? s.slice(1) : s).replace('-', '−');
 }
 
-/** Round tick positions covering [lo, hi]: steps of 1, 2 or 5 × 10^k, at most `most` of them. */
+/**
+ * Round tick positions inside [lo, hi]: the smallest step of 1, 2 or 5 × 10^k that gives at most
+ * `most` of them, or the next smaller one when that would leave fewer than two.
+ */
 function niceTicks(lo: number, hi: number, most: number): { ticks: number[]; step: number } {
-  const span = hi - lo;
-  const raw = span / Math.max(1, most - 1);
-  const p = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 5, 10].map((m) => m * p).find((s) => span / s <= most - 1) ?? 10 * p;
+  const e0 = Math.floor(Math.log10(hi - lo));
+  const count = (s: number): number => Math.floor(hi / s) - Math.ceil(lo / s) + 1;
+  const steps: number[] = [];
+  for (let e = e0 - 3; e <= e0 + 1; e++) for (const m of [1, 2, 5]) steps.push(m * 10 ** e);
+  let i = steps.findIndex((s) => count(s) <= most);
+  if (i < 0) i = steps.length - 1;
+  if (i > 0 && count(steps[i]) < 2) i--;
+  const step = steps[i];
   const ticks: number[] = [];
   for (let k = Math.ceil(lo / step - 1e-9); k * step <= hi + step * 1e-9; k++) ticks.push(k * step);
   return { ticks, step };
@@ -290,7 +297,7 @@ export function differencePlotSvg(input: DifferencePlotInput): string {
   out.push(`</g>`);
 
   // Mean axis: ticks and name; the difference axis name turned along the left edge.
-  const xTicks = niceTicks(xLo, xHi, Math.max(3, Math.floor(plotW / (fsText * 5))));
+  const xTicks = niceTicks(xLo, xHi, Math.max(3, Math.floor(plotW / (fsText * 4))));
   out.push(`<g class="x-axis">`);
   for (const t of xTicks.ticks) {
     const x = xOf(t);

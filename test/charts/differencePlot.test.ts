@@ -200,6 +200,26 @@ describe('the difference plot as SVG', () => {
     expect(() => pairDifference({ x: -1, y: 1 }, 'percent')).toThrow(/mean of 0/);
   });
 
+  test('at least two labelled ticks on each axis, in order, inside the plot, at pane and print widths', async () => {
+    for (const width of [288, 320, 640]) {
+      for (const set of [ps, ps.map((p) => ({ x: p.x / 10 + 8, y: p.y / 10 + 8 })), ps.slice(0, 5)]) {
+        const els = await elements(differencePlotSvg({ title: 't', pairs: set, agreement: agreementOf(set, 'absolute'), width }));
+        const area = byClass(els, 'plot-area')[0];
+        const left = Number(area.attrs['data-left']);
+        const right = left + Number(area.attrs['data-width']);
+        const xTicks = byClass(els, 'tick').filter((t) => t.attrs['text-anchor'] === 'middle');
+        const yTicks = byClass(els, 'tick').filter((t) => t.attrs['text-anchor'] === 'end');
+        expect(xTicks.length).toBeGreaterThanOrEqual(2);
+        expect(yTicks.length).toBeGreaterThanOrEqual(2);
+        const xs = xTicks.map((t) => Number(t.attrs.x));
+        expect(xs).toEqual([...xs].sort((a, b) => a - b));
+        for (const x of xs) expect(x >= left - 0.01 && x <= right + 0.01).toBe(true);
+        const values = xTicks.map((t) => Number(t.text.replace('−', '-')));
+        expect(values).toEqual([...values].sort((a, b) => a - b));
+      }
+    }
+  });
+
   test('no pairs: an empty plot that says so', async () => {
     const a = agreementOf(ps, 'absolute');
     const els = await elements(differencePlotSvg({ title: 't', pairs: [], agreement: a }));
