@@ -16,12 +16,16 @@ import { writePlan } from './xlsx';
 import { DocumentSheet, planDocument } from './document';
 import type { DocValue, Paper } from './document';
 import { readPaper } from './fill';
-import { evaluate } from '../registry';
+import { svgToPng } from './picture';
+import { CELL_PADDING, columnPoints, longestWord } from './document';
+import { differencePlotSvg } from '../charts/differencePlot';
+import type { AgreementLines } from '../charts/differencePlot';
+import { evaluate, findFunction } from '../registry';
 import type { Arg } from '../registry';
 import type { OutCell } from '../registry/types';
-import { demoData, demoTable, DEMO_ANALYSERS, DEMO_LAB, DEMO_MARKER, reportedDecimals } from '../engine/demo';
-import type { DemoAnalyteData } from '../engine/demo';
-import { planFill, decimalsFormat } from '../engine/fill';
+import { demoData, demoTable, demoVerification, DEMO_ANALYSERS, DEMO_LAB, DEMO_MARKER, reportedDecimals, REPLICATES_PER_DAY, REPLICATION_DAYS, VERIFICATION_MATERIALS } from '../engine/demo';
+import type { DemoAnalyteData, VerificationAnalyte, VerificationMaterial } from '../engine/demo';
+import { planFill, decimalsFormat, columnLetters } from '../engine/fill';
 import { rowKey } from '../engine/table';
 import type { FillMode } from '../engine/fill';
 import { VERSION } from '../engine/version';
@@ -192,20 +196,48 @@ function demoSheet(ctx: DemoContext, name: string, title: string): DocumentSheet
   return doc;
 }
 
+/** What the run size means, under the tables that show it. */
+const RUN_SIZE_NOTES = [
+  'Run size: the most patient results between QC events that keep the expected number of unreliable final results at most 1',
+  '(results in error beyond the allowance, reported before QC catches a shift; Parvin’s model, CLSI C24; LEEWAY.QC.PLAN’s Run size). 0: even one is too many; at most 1000000 is reported.',
+] as const;
+
+/**
+ * Headers over their columns (call after finish(), when the widths are set): over numbers set to
+ * the right; over text after the first column set in by one character as the text below it is,
+ * where the column has room for it.
+ */
+function alignHeaders(doc: DocumentSheet, header: number, first: number, last: number): void {
+  doc.ws.getRow(header).eachCell((cell, c) => {
+    let numbers = false;
+    for (let r = first; r <= last && !numbers; r++) numbers = typeof doc.ws.getCell(r, c).value === 'number';
+    const room = (doc.ws.getColumn(c).width ?? 0) - longestWord(String(cell.value), { bold: true }) - CELL_PADDING;
+    if (numbers) cell.alignment = { ...(cell.alignment ?? {}), horizontal: 'right' };
+    else if (c > 1 && room >= INDENT_UNITS) cell.alignment = { ...(cell.alignment ?? {}), horizontal: 'left', indent: 1 };
+  });
+}
+
+/** Units an indent of one takes (as the document layer counts it). */
+const INDENT_UNITS = 1.5;
+
 /** Summary first: what a reviewer reads. */
 function summarySheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, 'Summary', 'Leeway demo: verification summary');
-  doc.header(['Analyte', 'Specimen', 'Allowable total error % (desirable)', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met', 'QC rule', 'Controls per run', 'Runs', 'Detection', 'Target met', 'Expanded uncertainty % (k = 2)']);
+  const header = doc.header(['Analyte', 'Specimen', 'Allowable total error % (desirable)', 'Within-lab CV %', 'Bias % (EQA)', 'Observed total error %', 'Share of allowance', 'Sigma', 'Tier met', 'QC rule', 'Controls per run', 'Runs', 'Detection', 'Target met', 'Run size', 'Expanded uncertainty % (k = 2)']);
   for (const f of ctx.figures) {
     doc.line(
-      [f.data.analyte, f.data.specimen, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet), show(pick(f.qc, 'Rule')), show(pick(f.qc, 'Controls per run')), show(pick(f.qc, 'Runs')), show(pick(f.qc, 'Detection')), show(pick(f.qc, 'Target met')), show(f.expanded)],
-      { formats: [undefined, undefined, P2, P2, P2, P2, P2, '0.0', undefined, undefined, '0', '0', P3, undefined, P2] },
+      [f.data.analyte, f.data.specimen, show(f.allowable), show(f.cv), show(f.bias), show(f.observedTotal), show(f.share), show(f.sigma), show(f.tierMet), show(pick(f.qc, 'Rule')), show(pick(f.qc, 'Controls per run')), show(pick(f.qc, 'Runs')), show(pick(f.qc, 'Detection')), show(pick(f.qc, 'Target met')), show(pick(f.qc, 'Run size')), show(f.expanded)],
+      { formats: [undefined, undefined, P2, P2, P2, P2, P2, '0.0', undefined, undefined, '0', '0', P3, undefined, '0', P2] },
     );
   }
+  const rows = doc.row - 1;
   doc.skip();
   doc.note('Observed total error = |bias| + 1.65·CV (LEEWAY.PERF.TOTAL); sigma = (allowable − |bias|)/CV (LEEWAY.PERF.SIGMA); tier met by total error (LEEWAY.PERF.TIER);');
   doc.note('QC rule: the simplest candidate reaching 90 % detection of the critical shift with ≤ 5 % false rejection (LEEWAY.QC.PLAN). Details on the other sheets.');
+  for (const n of RUN_SIZE_NOTES) doc.note(n);
+  doc.note('Precision claims, trueness and agreement of the new analyser: the Verification sheet.');
   doc.finish();
+  alignHeaders(doc, header, header + 1, rows);
 }
 
 /** Specifications: the fill planner, exactly as leeway fill writes a new sheet. */
@@ -298,6 +330,331 @@ function comparisonSheet(ctx: DemoContext): void {
   doc.finish();
 }
 
+/** Position (1-based) of a label in a labelled spill: the k of =INDEX(LEEWAY.NAME(…),2,k). */
+function spillIndex(name: string, label: string): number {
+  const k = findFunction(name)?.labels?.indexOf(label) ?? -1;
+  if (k < 0) throw new Error(`${name} has no figure "${label}"`);
+  return k + 1;
+}
+
+/** Formula text of one figure of a labelled spill. */
+function indexFormula(name: string, args: string, label: string): string {
+  return `=INDEX(LEEWAY.${name}(${args}),2,${spillIndex(name, label)})`;
+}
+
+/** The scale the demo's limits of agreement are on: the demo's errors are proportional, so the differences grow with the level. */
+const AGREEMENT_SCALE = 'percent';
+const AGREEMENT_LABELS = ['Mean difference', 'Mean difference low', 'Mean difference high', 'SD of differences', 'Lower limit', 'Lower limit low', 'Lower limit high', 'Upper limit', 'Upper limit low', 'Upper limit high'] as const;
+const TRUENESS_LABELS = ['Mean', 'Bias', 'Bias %', 'Standard error', 'df', 'Verification low', 'Verification high', 'Verified'] as const;
+/** Width in px the difference plots are drawn at for print, and how much larger they are placed (legible after the page's fit-to-width scale). */
+const PLOT_WIDTH = 480;
+const PLOT_ZOOM = 1.15;
+const PLOTS_PER_ROW = 2;
+/** Pixels of a default row (15 points at 96 px per inch). */
+const ROW_PX = 20;
+
+/** The figures of one material of the verification study, each from the registry. */
+interface MaterialFigures {
+  readonly m: VerificationMaterial;
+  readonly values: number[][];
+  readonly groups: string[][];
+  readonly precision: Map<string, OutCell>;
+  readonly verify: Map<string, OutCell>;
+  readonly repeatabilityLimits: Map<string, OutCell> | undefined;
+  readonly withinLabLimits: Map<string, OutCell> | undefined;
+  readonly sigma: Map<string, OutCell> | undefined;
+  readonly trueness: Map<string, OutCell> | undefined;
+}
+
+/** CV limits when the CV and its df are numbers. */
+function cvLimitsOf(cv: OutCell | undefined, df: OutCell | undefined): Map<string, OutCell> | undefined {
+  return num(cv) !== undefined && num(df) !== undefined ? labelled('DATA.CVLIMITS', [num(cv)!, num(df)!]) : undefined;
+}
+
+/** Every figure of the verification study: precision, CV limits, sigma against the analyte's allowance in use, trueness. */
+function verificationFigures(figures: readonly Observed[]): Array<{ analyte: VerificationAnalyte; observed: Observed; materials: MaterialFigures[]; agreement: Map<string, OutCell> }> {
+  return demoVerification().map((a) => {
+    const observed = figures.find((f) => f.data.analyte === a.analyte);
+    if (!observed) throw new Error(`the verification study names ${a.analyte}, which is not a demo analyte`);
+    const materials = a.materials.map((m): MaterialFigures => {
+      const values = col(m.replication.map((x) => x.result));
+      const groups = colText(m.replication.map((x) => x.day));
+      const precision = labelled('DATA.PRECISION', [values, groups]);
+      const verify = labelled('VERIFY.PRECISION', [values, groups, m.claim.repeatability, m.claim.withinLab, VERIFICATION_MATERIALS]);
+      const wlCv = pick(precision, 'Within-lab CV %');
+      const wlDf = pick(precision, 'Within-lab df');
+      const inputs = [observed.allowable, observed.bias, wlCv, wlDf, observed.uBias].map(num);
+      return {
+        m,
+        values,
+        groups,
+        precision,
+        verify,
+        repeatabilityLimits: cvLimitsOf(pick(precision, 'Repeatability CV %'), pick(verify, 'Repeatability df')),
+        withinLabLimits: cvLimitsOf(wlCv, wlDf),
+        sigma: inputs.every((x) => x !== undefined) ? labelled('PERF.SIGMALIMITS', inputs as number[]) : undefined,
+        trueness: m.assigned ? labelled('VERIFY.TRUENESS', [values, groups, m.assigned.value, m.assigned.u, 1]) : undefined,
+      };
+    });
+    const pairs = observed.data.comparison;
+    const agreement = labelled('DATA.AGREEMENT', [col(pairs.map((p) => p.x)), col(pairs.map((p) => p.y)), AGREEMENT_SCALE]);
+    return { analyte: a, observed, materials, agreement };
+  });
+}
+
+/** Rows of the Comparison sheet's raw data of each analyte (x in C, y in D), read back from the sheet. */
+function comparisonRows(ctx: DemoContext): Map<string, [number, number]> {
+  const ws = ctx.wb.getWorksheet('Comparison');
+  if (!ws) throw new Error('the Comparison sheet is built before the Verification sheet reads it');
+  const spans = new Map<string, [number, number]>();
+  const samples = new Set(ctx.figures.flatMap((f) => f.data.comparison.map((p) => p.sample)));
+  ws.eachRow((row, r) => {
+    const analyte = row.getCell(1).value;
+    if (typeof analyte !== 'string' || !samples.has(String(row.getCell(2).value))) return;
+    const s = spans.get(analyte);
+    spans.set(analyte, s ? [s[0], r] : [r, r]);
+  });
+  return spans;
+}
+
+/** The verification study's two sheets: the figures, and the raw data with every figure's formula. */
+const VERIFICATION_SHEET = 'Verification';
+const VERIFICATION_DATA_SHEET = 'Verification data';
+/** How a formula on the figures sheet names a range of the data sheet. */
+const DATA_REF = `'${VERIFICATION_DATA_SHEET}'!`;
+
+/** The figures sheet being written: cells filled by address, each computed figure's formula text kept for the list. */
+/** Formulas per table row: precision (CV, df, CV low and high, limit, verdict), sigma (allowable, CV, df, sigma and its limits), trueness, agreement. */
+const FORMULAS_PER_ROW = { precision: 6, sigma: 6, trueness: 8, agreement: 11 } as const;
+
+class FormulaLog {
+  readonly lines: Array<[string, string]> = [];
+  constructor(private readonly doc: DocumentSheet) {}
+
+  /** A figure in a cell, with the formula that computes it (none for an input). */
+  put(row: number, column: number, value: DocValue, format?: string, formula?: string): void {
+    this.doc.put(row, column, value, { format });
+    if (formula) this.lines.push([`${columnLetters(column)}${row}`, formula]);
+  }
+}
+
+/** A table's header and room for its rows; returns the first row. */
+function tableAt(doc: DocumentSheet, heading: string, header: readonly string[], rows: number, notes: readonly string[]): number {
+  doc.text(heading, { bold: true });
+  doc.header(header);
+  const first = doc.row;
+  doc.skip(rows);
+  for (const n of notes) doc.note(n);
+  doc.skip();
+  return first;
+}
+
+/**
+ * The verification study on two sheets: precision claims, CV limits, sigma, trueness, every figure's
+ * formula, agreement with its difference plots; and the invented raw data.
+ */
+function verificationSheet(ctx: DemoContext): void {
+  const doc = demoSheet(ctx, VERIFICATION_SHEET, `Leeway demo: verification of ${DEMO_ANALYSERS.candidate} before it reports patient results`);
+  const data = demoSheet(ctx, VERIFICATION_DATA_SHEET, 'Leeway demo: verification study, raw data (invented)');
+  const study = verificationFigures(ctx.figures);
+  const log = new FormulaLog(doc);
+  const materials = study.flatMap((s) => s.materials.map((mf) => ({ s, mf })));
+  doc.text(`Replication on two invented control materials per analyte, ${REPLICATION_DAYS} days × ${REPLICATES_PER_DAY} replicates each (CLSI EP15-A3 design); claims and assigned values invented. The raw data: the ${VERIFICATION_DATA_SHEET} sheet.`);
+  doc.skip();
+  const precisionTop = tableAt(
+    doc,
+    'Precision against the manufacturer’s claims',
+    ['Analyte', 'Material', 'Precision', 'CV %', 'df', 'CV low 95%', 'CV high 95%', 'Claim % (invented)', 'Verification limit %', 'Verified'],
+    materials.length * 2,
+    [
+      `Verification limit = claim·√(χ²(1 − α/L; df)/df), α = 0.05 shared by the L = ${VERIFICATION_MATERIALS} materials of an analyte (LEEWAY.VERIFY.PRECISION).`,
+      '"yes": the study is consistent with the claim; "no": more imprecision than the claim allows, a finding to investigate. CV limits: LEEWAY.DATA.CVLIMITS.',
+    ],
+  );
+  const sigmaTop = tableAt(
+    doc,
+    'Sigma with its confidence limits',
+    ['Analyte', 'Material', 'Allowable total error % (desirable)', 'Bias % (EQA)', 'u(bias) %', 'Within-lab CV %', 'Within-lab df', 'Sigma', 'Sigma low 95%', 'Sigma high 95%'],
+    materials.length,
+    ['Sigma = (allowable − |bias|)/CV with limits from the uncertainty of the CV (its df) and of the bias (LEEWAY.PERF.SIGMALIMITS). Bias (EQA) and u(bias) are the analyte’s figures on the Performance and Uncertainty sheets.'],
+  );
+  const truenessMaterials = materials.filter((x) => x.mf.trueness);
+  const truenessTop = tableAt(
+    doc,
+    'Trueness against an assigned value',
+    ['Analyte', 'Material', 'Unit', 'Assigned value (invented)', 'u(assigned) (invented)', ...TRUENESS_LABELS],
+    truenessMaterials.length,
+    ['Verification interval = assigned ± t·√(SE² + u(assigned)²); "yes" when the mean lies inside it (LEEWAY.VERIFY.TRUENESS).'],
+  );
+  const formulaCount =
+    materials.length * 2 * FORMULAS_PER_ROW.precision + materials.length * FORMULAS_PER_ROW.sigma + truenessMaterials.length * FORMULAS_PER_ROW.trueness + study.length * FORMULAS_PER_ROW.agreement;
+  doc.text('Formulas of the figures on this sheet (as text: each figure is the registry’s value of its formula; with the add-in, type it into that cell to recompute)', { bold: true });
+  doc.header(['Cell', 'Formula']);
+  const formulaTop = doc.row;
+  doc.skip(formulaCount + 1);
+  const agreementTop = tableAt(
+    doc,
+    `Agreement of ${DEMO_ANALYSERS.candidate} with ${DEMO_ANALYSERS.current} (the Comparison sheet’s patient samples)`,
+    ['Analyte', 'Pairs', 'Scale', ...AGREEMENT_LABELS.map((l) => `${l} %`)],
+    study.length,
+    ['Differences in % of the pair’s mean, as the errors grow with the level; limits = mean ± 1.96 SD, each with its 95 % interval (LEEWAY.DATA.AGREEMENT).'],
+  );
+  const plotRows = Math.ceil((plotHeight() * PLOT_ZOOM) / ROW_PX) + 1;
+  const plotTop = doc.row;
+  doc.skip(plotRows * Math.ceil(study.length / PLOTS_PER_ROW));
+  const raw = writeVerificationRaw(data, materials.map((x) => ({ analyte: x.s.analyte, m: x.mf.m })));
+  // The tables, now that the raw data rows are known.
+  materials.forEach(({ s, mf }, i) => precisionRows(log, precisionTop + 2 * i, s.analyte.analyte, mf, raw[i]));
+  materials.forEach(({ s, mf }, i) => sigmaRow(log, sigmaTop + i, s, mf, precisionTop + 2 * i + 1));
+  truenessMaterials.forEach(({ s, mf }, i) => truenessRow(log, truenessTop + i, s.analyte, mf, raw[materials.findIndex((x) => x.mf === mf)]));
+  const comparison = comparisonRows(ctx);
+  study.forEach((s, i) => agreementRow(log, agreementTop + i, s.analyte.analyte, s.agreement, comparison.get(s.analyte.analyte)));
+  if (log.lines.length !== formulaCount) throw new Error(`the verification sheet has ${log.lines.length} formulas, not ${formulaCount}`);
+  log.lines.forEach(([address, formula], i) => {
+    doc.put(formulaTop + i, 1, address);
+    doc.put(formulaTop + i, 2, formula);
+    doc.markSpan(formulaTop + i, 2);
+  });
+  const dataLayout = data.finish();
+  // The raw data run over several pages, and programs fit different numbers of rows on one (their fit-to-width scales
+  // differ): the data sheet's sign-off starts a page of its own, so none splits it.
+  if (!dataLayout.pageBreakBefore) data.ws.getRow(dataLayout.signOffRow - 1).addPageBreak();
+  const layout = doc.finish();
+  for (const [top, n] of [[precisionTop, materials.length * 2], [sigmaTop, materials.length], [truenessTop, truenessMaterials.length], [agreementTop, study.length]]) alignHeaders(doc, top - 1, top, top + n - 1);
+  placeDifferencePlots(ctx.wb, doc, study, plotTop, plotRows, layout.contentPoints);
+  // Page breaks where each part fits a page in any program that prints the sheet (the fit-to-width scale differs between
+  // them): the precision table with the banner; sigma and trueness; the formulas; the agreement table with the first
+  // row of plots; each further row of plots, the last with the sign-off. No picture is cut by a page break.
+  const breaks = [sigmaTop - 3, formulaTop - 3, agreementTop - 3];
+  for (let k = 1; k < Math.ceil(study.length / PLOTS_PER_ROW); k++) breaks.push(plotTop + k * plotRows - 1);
+  for (const r of breaks) doc.ws.getRow(r).addPageBreak();
+}
+
+function writeVerificationRaw(doc: DocumentSheet, list: ReadonlyArray<{ analyte: VerificationAnalyte; m: VerificationMaterial }>): Array<[number, number]> {
+  doc.text('Raw data (invented)', { bold: true });
+  doc.printTitle(doc.header(['Analyte', 'Material', 'Day', 'Result']));
+  const spans = list.map(({ analyte, m }) => {
+    const first = doc.row;
+    const fmt = levelFormat(m.level);
+    for (const x of m.replication) doc.line([analyte.analyte, m.material, x.day, x.result], { formats: [undefined, undefined, undefined, fmt] });
+    return [first, doc.row - 1] as [number, number];
+  });
+  doc.skip();
+  return spans;
+}
+
+function precisionRows(log: FormulaLog, row: number, analyte: string, mf: MaterialFigures, [first, last]: [number, number]): void {
+  const data = `${DATA_REF}D${first}:D${last},${DATA_REF}C${first}:C${last}`;
+  const rep = row;
+  const wl = row + 1;
+  const verifyArgs = `${data},H${rep},H${wl},${VERIFICATION_MATERIALS}`;
+  const parts = [
+    { r: rep, name: 'repeatability', cv: 'Repeatability CV %', df: ['VERIFY.PRECISION', 'Repeatability df', verifyArgs] as const, limits: mf.repeatabilityLimits, claim: mf.m.claim.repeatability, limit: 'Repeatability limit %', verified: 'Repeatability verified' },
+    { r: wl, name: 'within-lab', cv: 'Within-lab CV %', df: ['DATA.PRECISION', 'Within-lab df', data] as const, limits: mf.withinLabLimits, claim: mf.m.claim.withinLab, limit: 'Within-lab limit %', verified: 'Within-lab verified' },
+  ];
+  for (const p of parts) {
+    log.put(p.r, 1, analyte);
+    log.put(p.r, 2, mf.m.material);
+    log.put(p.r, 3, p.name);
+    log.put(p.r, 4, show(pick(mf.precision, p.cv)), P2, indexFormula('DATA.PRECISION', data, p.cv));
+    const dfMap = p.df[0] === 'VERIFY.PRECISION' ? mf.verify : mf.precision;
+    log.put(p.r, 5, show(pick(dfMap, p.df[1])), '0.0', indexFormula(p.df[0], p.df[2], p.df[1]));
+    log.put(p.r, 6, show(pick(p.limits, 'Low')), P2, indexFormula('DATA.CVLIMITS', `D${p.r},E${p.r}`, 'Low'));
+    log.put(p.r, 7, show(pick(p.limits, 'High')), P2, indexFormula('DATA.CVLIMITS', `D${p.r},E${p.r}`, 'High'));
+    log.put(p.r, 8, p.claim, '0.0');
+    log.put(p.r, 9, show(pick(mf.verify, p.limit)), P2, indexFormula('VERIFY.PRECISION', verifyArgs, p.limit));
+    log.put(p.r, 10, show(pick(mf.verify, p.verified)), undefined, indexFormula('VERIFY.PRECISION', verifyArgs, p.verified));
+  }
+}
+
+function sigmaRow(log: FormulaLog, r: number, s: { analyte: VerificationAnalyte; observed: Observed }, mf: MaterialFigures, wlRow: number): void {
+  const o = s.observed;
+  const table = demoTable().rows.find((x) => x.analyte === s.analyte.analyte)!;
+  log.put(r, 1, s.analyte.analyte);
+  log.put(r, 2, mf.m.material);
+  log.put(r, 3, show(o.allowable), P2, `=LEEWAY.SPEC.TOTAL(${table.cvi},${table.cvg},"desirable",1.65)`);
+  log.put(r, 4, show(o.bias), P2);
+  log.put(r, 5, show(o.uBias), P2);
+  log.put(r, 6, show(pick(mf.precision, 'Within-lab CV %')), P2, `=D${wlRow}`);
+  log.put(r, 7, show(pick(mf.precision, 'Within-lab df')), '0.0', `=E${wlRow}`);
+  const args = `C${r},D${r},F${r},G${r},E${r}`;
+  (['Sigma', 'Low', 'High'] as const).forEach((l, k) => log.put(r, 8 + k, show(pick(mf.sigma, l)), '0.0', indexFormula('PERF.SIGMALIMITS', args, l)));
+}
+
+function truenessRow(log: FormulaLog, r: number, a: VerificationAnalyte, mf: MaterialFigures, [first, last]: [number, number]): void {
+  const assigned = mf.m.assigned!;
+  const fmt = levelFormat(mf.m.level);
+  log.put(r, 1, a.analyte);
+  log.put(r, 2, mf.m.material);
+  log.put(r, 3, a.unit);
+  log.put(r, 4, assigned.value, fmt);
+  log.put(r, 5, assigned.u, fmt);
+  const args = `${DATA_REF}D${first}:D${last},${DATA_REF}C${first}:C${last},D${r},E${r},1`;
+  const formats: Record<(typeof TRUENESS_LABELS)[number], string | undefined> = { Mean: P3, Bias: P3, 'Bias %': P2, 'Standard error': P3, df: '0.0', 'Verification low': P3, 'Verification high': P3, Verified: undefined };
+  TRUENESS_LABELS.forEach((l, k) => log.put(r, 6 + k, show(pick(mf.trueness, l)), formats[l], indexFormula('VERIFY.TRUENESS', args, l)));
+}
+
+function agreementRow(log: FormulaLog, r: number, analyte: string, agreement: Map<string, OutCell>, rows: [number, number] | undefined): void {
+  if (!rows) throw new Error(`no comparison data of ${analyte} on the Comparison sheet`);
+  const args = `Comparison!C${rows[0]}:C${rows[1]},Comparison!D${rows[0]}:D${rows[1]},C${r}`;
+  log.put(r, 1, analyte);
+  log.put(r, 2, show(pick(agreement, 'Pairs')), '0', indexFormula('DATA.AGREEMENT', args, 'Pairs'));
+  log.put(r, 3, AGREEMENT_SCALE);
+  AGREEMENT_LABELS.forEach((l, k) => log.put(r, 4 + k, show(pick(agreement, l)), P2, indexFormula('DATA.AGREEMENT', args, l)));
+}
+
+/** Height in px of a difference plot drawn PLOT_WIDTH wide (it does not depend on the data). */
+function plotHeight(): number {
+  const zero = { meanDifference: 0, meanDifferenceLow: 0, meanDifferenceHigh: 0, lowerLimit: 0, lowerLimitLow: 0, lowerLimitHigh: 0, upperLimit: 0, upperLimitLow: 0, upperLimitHigh: 0 };
+  const m = /height="([\d.]+)"/.exec(differencePlotSvg({ title: '', pairs: [], agreement: zero, width: PLOT_WIDTH }));
+  return Number(m![1]);
+}
+
+/** The agreement figures a plot draws, when every one is a number. */
+function agreementLines(a: Map<string, OutCell>): AgreementLines | undefined {
+  const v = (l: (typeof AGREEMENT_LABELS)[number]): number | undefined => num(pick(a, l));
+  const lines = {
+    meanDifference: v('Mean difference'),
+    meanDifferenceLow: v('Mean difference low'),
+    meanDifferenceHigh: v('Mean difference high'),
+    lowerLimit: v('Lower limit'),
+    lowerLimitLow: v('Lower limit low'),
+    lowerLimitHigh: v('Lower limit high'),
+    upperLimit: v('Upper limit'),
+    upperLimitLow: v('Upper limit low'),
+    upperLimitHigh: v('Upper limit high'),
+  };
+  return Object.values(lines).every((x) => x !== undefined) ? (lines as AgreementLines) : undefined;
+}
+
+/** The difference plots as pictures in the rows kept for them, PLOTS_PER_ROW across, within the printed width. */
+function placeDifferencePlots(wb: ExcelJS.Workbook, doc: DocumentSheet, study: ReturnType<typeof verificationFigures>, top: number, rowsEach: number, contentPoints: number): void {
+  const gap = 12;
+  const widthPx = (contentPoints * 96) / 72;
+  const ext = Math.min(PLOT_WIDTH * PLOT_ZOOM, (widthPx - gap * (PLOTS_PER_ROW - 1)) / PLOTS_PER_ROW);
+  const height = plotHeight();
+  study.forEach((s, i) => {
+    const lines = agreementLines(s.agreement);
+    if (!lines) return;
+    const pairs = s.observed.data.comparison.map((p) => ({ x: p.x, y: p.y, label: p.sample }));
+    const svg = differencePlotSvg({ title: `${s.analyte.analyte}: analyser B − analyser A (DEMO)`, pairs, agreement: lines, scale: AGREEMENT_SCALE, unit: s.analyte.unit, decimals: 2, width: PLOT_WIDTH, id: `difference-${i + 1}` });
+    const image = wb.addImage({ buffer: svgToPng(svg, 2) as unknown as ExcelJS.Buffer, extension: 'png' });
+    const across = i % PLOTS_PER_ROW;
+    const row = top + Math.floor(i / PLOTS_PER_ROW) * rowsEach;
+    doc.ws.addImage(image, { tl: { col: colAt(doc, (across * (ext + gap) * 72) / 96), row: row - 1 }, ext: { width: ext, height: (height * ext) / PLOT_WIDTH }, editAs: 'oneCell' });
+  });
+}
+
+/** The fractional column (0-based, as exceljs anchors pictures) at a distance in points from the sheet's left edge. */
+function colAt(doc: DocumentSheet, points: number): number {
+  let left = 0;
+  for (let c = 1; ; c++) {
+    const w = columnPoints(doc.ws.getColumn(c).width ?? 9);
+    if (left + w > points) return c - 1 + (points - left) / w;
+    left += w;
+  }
+}
+
 /** Performance against the desirable specification. */
 function performanceSheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, 'Performance', 'Leeway demo: observed performance against the desirable specification');
@@ -311,12 +668,16 @@ function performanceSheet(ctx: DemoContext): void {
 /** QC plan. */
 function qcSheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, 'QC plan', 'Leeway demo: internal QC design');
-  const labels = ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met'];
-  doc.header(['Analyte', 'Allowable total error %', 'Bias %', 'CV %', 'Sigma', 'Critical shift (SD)', ...labels]);
-  for (const f of ctx.figures) doc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...labels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3] });
+  const labels = ['Rule', 'Controls per run', 'Runs', 'Detection', 'False rejection per run', 'Target met', 'Run size'];
+  const header = doc.header(['Analyte', 'Allowable total error %', 'Bias %', 'CV %', 'Sigma', 'Critical shift (SD)', ...labels]);
+  for (const f of ctx.figures) doc.line([f.data.analyte, show(f.allowable), show(f.bias), show(f.cv), show(f.sigma), show(f.shift), ...labels.map((l) => show(pick(f.qc, l)))], { formats: [undefined, P2, P2, P2, '0.0', P2, undefined, '0', '0', P3, P3, undefined, '0'] });
+  const rows = doc.row - 1;
   doc.skip();
   doc.note('=LEEWAY.QC.SHIFT(allowable, bias, cv); =LEEWAY.QC.PLAN(allowable, bias, cv): target detection 0.90 at the critical shift, false rejection per run ≤ 0.05.');
+  for (const n of RUN_SIZE_NOTES) doc.note(n);
+  doc.note('=LEEWAY.QC.RUNSIZE(allowable, bias, cv, rule, controls per run) gives the same figure; LEEWAY.QC.RISK the expected number of unreliable final results at another run size.');
   doc.finish();
+  alignHeaders(doc, header, header + 1, rows);
 }
 
 /** Measurement uncertainty. */
@@ -332,13 +693,18 @@ function uncertaintySheet(ctx: DemoContext): void {
   doc.finish();
 }
 
-/** Builds the demo workbook (in memory): eight sheets, each a printable document. */
+/** Builds the demo workbook (in memory): ten sheets, each a printable document. */
 export function buildDemoWorkbook(options: { mode?: FillMode; date?: string; paper?: Paper } = {}): ExcelJS.Workbook {
   const wb = newWorkbook();
   wb.creator = `Leeway ${VERSION}`;
   wb.title = `Leeway demo workbook — ${DEMO_MARKER}`;
   const ctx: DemoContext = { wb, figures: demoFigures(), mode: options.mode ?? 'values', date: options.date ?? today(), paper: options.paper ?? 'A4' };
-  for (const sheet of [summarySheet, specificationsSheet, replicationSheet, eqaSheet, comparisonSheet, performanceSheet, qcSheet, uncertaintySheet]) sheet(ctx);
+  for (const sheet of [summarySheet, specificationsSheet, replicationSheet, eqaSheet, comparisonSheet, verificationSheet, performanceSheet, qcSheet, uncertaintySheet]) sheet(ctx);
+  // The verification sheet reads the Comparison sheet's rows, so it is built after it and then placed after Replication.
+  const order = ['Summary', 'Specifications', 'Replication', VERIFICATION_SHEET, VERIFICATION_DATA_SHEET, 'EQA', 'Comparison', 'Performance', 'QC plan', 'Uncertainty'];
+  // exceljs orders sheets by each worksheet's orderNo (set by addWorksheet; not in its type declarations).
+  for (const ws of wb.worksheets as Array<ExcelJS.Worksheet & { orderNo: number }>) ws.orderNo = order.indexOf(ws.name) + 1;
+  if (wb.worksheets.map((w) => w.name).join() !== order.join()) throw new Error(`demo sheets out of order: ${wb.worksheets.map((w) => w.name).join(', ')}`);
   for (const ws of wb.worksheets) ws.views = [{ state: 'normal', zoomScale: 100 }];
   return wb;
 }

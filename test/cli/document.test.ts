@@ -153,8 +153,8 @@ describe('leeway demo: every sheet is a printed document', () => {
     wb = await read(out);
   });
 
-  test('page set-up, demo marker in the page header, footer, repeated header row and sign-off on each of the eight sheets', () => {
-    expect(wb.worksheets).toHaveLength(8);
+  test('page set-up, demo marker in the page header, footer, repeated header row and sign-off on each of the ten sheets', () => {
+    expect(wb.worksheets).toHaveLength(10);
     for (const ws of wb.worksheets) {
       expect(ws.pageSetup).toMatchObject({ paperSize: 9, fitToPage: true, fitToWidth: 1, fitToHeight: 0 });
       expect(ws.headerFooter.oddHeader).toBe(`&LLeeway demo — ${ws.name}&R${DEMO_MARKER}`);

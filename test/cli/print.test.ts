@@ -10,7 +10,7 @@ import * as fs from 'fs';
 import * as path from 'path';
 import ExcelJS from 'exceljs';
 import { leeway, tempDir, TABLES } from './support';
-import { findSoffice, overlappingWords, pageSizes, pageTexts, pdfWords, pictures, toPdf } from './render';
+import { findSoffice, overlappingWords, pageSizes, pageTexts, pdfImages, pdfWords, pictures, toPdf } from './render';
 import type { Word } from './render';
 import { DEMO_MARKER, TITLE } from '../../src/engine/fill';
 import { VERSION } from '../../src/engine/version';
@@ -22,6 +22,7 @@ const SOFFICE = findSoffice();
 const A4_LANDSCAPE = { width: 841.89, height: 595.28 };
 
 interface Rendered {
+  readonly pdf: string;
   readonly wb: ExcelJS.Workbook;
   readonly pages: string[];
   readonly words: Word[];
@@ -38,7 +39,7 @@ async function render(name: string, args: string[], profile: string): Promise<Re
   const pdf = toPdf(SOFFICE, file, OUT, profile);
   for (const old of fs.readdirSync(OUT).filter((f) => f.startsWith(`${name}-`) && f.endsWith('.png'))) fs.rmSync(path.join(OUT, old));
   pictures(pdf, path.join(OUT, name), 60);
-  return { wb, pages: pageTexts(pdf), words: pdfWords(pdf), sizes: pageSizes(pdf) };
+  return { pdf, wb, pages: pageTexts(pdf), words: pdfWords(pdf), sizes: pageSizes(pdf) };
 }
 
 /** Every word of every cell's shown text is a word of the PDF: nothing is cut or shown as ####. */
@@ -171,11 +172,32 @@ describeIf('printed through LibreOffice: leeway demo', () => {
 
   test('page header with the demo marker, footer on every page; one sign-off per sheet', () => {
     expectHeaderFooter(demo.pages, (i) => `Leeway demo — ${/Leeway demo — ([A-Za-z ]+?)\s{2,}/.exec(demo.pages[i])![1].trim()}`, true);
-    expectSignOffs(demo.pages, 8);
+    expectSignOffs(demo.pages, demo.wb.worksheets.length);
+    expect(demo.wb.worksheets).toHaveLength(10);
   });
 
   test('nothing is cut and no text runs into another', () => {
     expectEveryCellWhole(demo.wb, demo.words);
     expect(overlappingWords(demo.words)).toEqual([]);
+  });
+
+  test('the verification sheet: the agreement table starts a page with the first two difference plots printed on it, the third on the next page with the sign-off', () => {
+    const sheetOf = (p: string): string | undefined => /Leeway demo — ([A-Za-z ]+?)\s{2,}/.exec(p)?.[1].trim();
+    const pages = demo.pages.map((p, i) => ({ p, n: i + 1 })).filter(({ p }) => sheetOf(p) === 'Verification');
+    expect(pages.length).toBeGreaterThanOrEqual(3);
+    const agreement = pages.find(({ p }) => p.includes('Agreement of Analyser B'))!;
+    // The table's heading comes straight after the page header and the repeated header row: a page of its own from there.
+    const lines = agreement.p.split('\n').filter((l) => l.trim() !== '');
+    const at = lines.findIndex((l) => /^\s*Agreement of Analyser B/.test(l));
+    expect(at).toBeGreaterThan(0);
+    expect(lines[at - 1]).toMatch(/^\s*Analyte\s.*Verified\s*$/);
+    expect(at).toBeLessThanOrEqual(3);
+    const images = pdfImages(demo.pdf).filter((im) => sheetOf(demo.pages[im.page - 1]) === 'Verification');
+    // A picture appears once per page it is drawn on (poppler's pdfimages, one "image" row per placement).
+    const onPage = (n: number): number => images.filter((im) => im.page === n).length;
+    expect(onPage(agreement.n)).toBeGreaterThanOrEqual(2);
+    expect(onPage(agreement.n + 1)).toBeGreaterThanOrEqual(1);
+    expect(new Set(images.map((im) => im.object)).size).toBe(3);
+    expect(demo.pages[agreement.n]).toMatch(/Approved by/);
   });
 });

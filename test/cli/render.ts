@@ -92,6 +92,16 @@ export function overlappingWords(words: readonly Word[]): Array<[Word, Word]> {
   return out;
 }
 
+/** The pictures drawn in a PDF (poppler's pdfimages -list): the page each is drawn on and its object number; masks left out. */
+export function pdfImages(pdf: string): Array<{ page: number; object: number }> {
+  const list = execFileSync('pdfimages', ['-list', pdf], { encoding: 'utf8' });
+  return list
+    .split('\n')
+    .map((l) => l.trim().split(/\s+/))
+    .filter((f) => f[2] === 'image')
+    .map((f) => ({ page: Number(f[0]), object: Number(f[10]) }));
+}
+
 /** Pictures of the pages, `dpi` dots per inch, as `<prefix>-<page>.png`; returns the files. */
 export function pictures(pdf: string, prefix: string, dpi = 60): string[] {
   fs.mkdirSync(path.dirname(prefix), { recursive: true });

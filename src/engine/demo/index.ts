@@ -3,3 +3,5 @@ export type { DemoAnalyteData, EqaResult, PairedResult, ReplicateResult } from '
 export { DEMO_MARKER } from '../fill/caution';
 export { demoControls, demoControlsCsv, CONTROL_EVENTS, CONTROL_MATERIALS, CONTROLS_NOTE, CONTROLS_SEED, CONTROLS_YEAR } from './controls';
 export type { DemoControlResult } from './controls';
+export { demoVerification, VERIFICATION_SEED, VERIFICATION_MATERIALS } from './verification';
+export type { AssignedValue, PrecisionClaim, VerificationAnalyte, VerificationMaterial } from './verification';
