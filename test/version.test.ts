@@ -27,3 +27,24 @@ describe('the version', () => {
     expect([code, out]).toEqual([0, [pkg.version]]);
   });
 });
+
+/**
+ * office.js is copied into the add-in from a dev dependency, so a production audit never sees it:
+ * the copy the add-in serves must be the installed package's own file, and the installed version
+ * the one package-lock.json pins (1.1.110 was the newest the registry here offered, 2026-12).
+ */
+describe('the office.js the add-in serves', () => {
+  const officeDir = path.join(root, 'node_modules', '@microsoft', 'office-js');
+  const served = path.join(root, 'dist', 'addin', 'assets', 'office-js', 'office.js');
+
+  test('is the installed @microsoft/office-js, byte for byte (npm test builds the add-in first)', () => {
+    expect(fs.existsSync(served) ? 'built' : `missing ${served}: run npm run build`).toBe('built');
+    expect(fs.readFileSync(served).equals(fs.readFileSync(path.join(officeDir, 'dist', 'office.js')))).toBe(true);
+  });
+
+  test('at the version package-lock.json pins', () => {
+    const lock = JSON.parse(fs.readFileSync(path.join(root, 'package-lock.json'), 'utf8')) as { packages: Record<string, { version: string }> };
+    const installed = (JSON.parse(fs.readFileSync(path.join(officeDir, 'package.json'), 'utf8')) as { version: string }).version;
+    expect(installed).toBe(lock.packages['node_modules/@microsoft/office-js'].version);
+  });
+});
