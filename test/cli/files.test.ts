@@ -201,6 +201,6 @@ describe('leeway check --results and --eqa', () => {
   test('--map checks the field against the kinds being read', () => {
     const r = leeway('check', '--eqa', path.join(EXAMPLES, 'eqa-results.csv'), '--map', 'x=cvi');
     expect(r.code).toBe(2);
-    expect(r.err[0]).toMatch(/cvi is not one of analyte, round, result, assigned, sd_pt, u_assigned, unit, date, note/);
+    expect(r.err[0]).toMatch(/cvi is not one of analyte, round, result, assigned, sd_pt, u_assigned, u_result, unit, date, note/);
   });
 });
