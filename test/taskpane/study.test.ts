@@ -96,7 +96,7 @@ describe('verification of a replication study', () => {
     expect(m1.figures.get('rDf')).toBe(vp[1][8]);
     const dp = evaluate('DATA.PRECISION', [L1.map((x) => [x]), RUNS.map((x) => [x])]);
     expect(m1.figures.get('wlCv')).toBe(dp[1][5]);
-    const lim = evaluate('DATA.CVLIMITS', [dp[1][4], vp[1][8]]);
+    const lim = evaluate('DATA.CVLIMITS', [dp[1][4] as number, vp[1][8] as number]);
     expect(m1.figures.get('rLow')).toBe(lim[1][0]);
     expect(m1.figures.get('rHigh')).toBe(lim[1][1]);
     const tr = evaluate('VERIFY.TRUENESS', [L1.map((x) => [x]), RUNS.map((x) => [x]), 10, 0.05, 2]);
