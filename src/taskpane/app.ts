@@ -1,166 +1,137 @@
 /**
- * The pane's shell: a header naming the table in use, five views behind a tab list (arrow keys
- * move between tabs), one status line that announces progress and errors, and the caution of
- * SPEC.md section 9 in a footer that is always on screen.
+ * The pane's shell: a header naming the table in use, the navigation (steps, then the views of
+ * a step; views are listed in views/index.ts), one status line for progress and errors, and the
+ * laboratory caution in a footer that is always on screen. Views are built the first time they
+ * are shown. A message in the status line belongs to the view that raised it: showing another
+ * view, or starting another action, clears it.
  */
 import { h, replace } from './dom';
 import type { PaneHost } from './host';
 import { PaneState } from './state';
 import { TableLibrary } from './store';
 import { CAUTION, DEMO_MARKER } from '../engine/caution';
-import { libraryView } from './views/library';
-import { fillView } from './views/fill';
-import { compareView } from './views/compare';
-import { qcView } from './views/qc';
-import { summaryView } from './views/summary';
 import { demoTable, DEMO_ID } from './demo';
+import { STEPS, VIEWS } from './views';
+import type { ViewEntry } from './views';
+import { buildNav } from './nav';
+import { messageOf } from './view';
+import type { PaneContext, StatusKind, View } from './view';
 
-export type StatusKind = 'info' | 'busy' | 'ok' | 'error';
+export type { PaneContext, View, StatusKind, ViewId } from './view';
 
-export interface PaneContext {
-  readonly host: PaneHost;
-  readonly library: TableLibrary;
-  readonly state: PaneState;
-  status(message: string, kind?: StatusKind): void;
-  /** Switches to a view by id. */
-  show(view: ViewId): void;
-  /** Selects a table (demo or library id) and loads its rows. */
-  useTable(id: string): Promise<void>;
+interface Slot {
+  readonly entry: ViewEntry;
+  readonly panel: HTMLElement;
+  view: View | null;
 }
 
-export interface View {
-  readonly root: HTMLElement;
-  /** Called when the view is shown. */
-  refresh(): void;
-}
-
-export type ViewId = 'library' | 'fill' | 'compare' | 'qc' | 'summary';
-
-const VIEWS: ReadonlyArray<{ id: ViewId; label: string; make: (ctx: PaneContext) => View }> = [
-  { id: 'library', label: 'Tables', make: libraryView },
-  { id: 'fill', label: 'Fill', make: fillView },
-  { id: 'compare', label: 'What-if', make: compareView },
-  { id: 'qc', label: 'QC', make: qcView },
-  { id: 'summary', label: 'Summary', make: summaryView },
-];
-
-export async function mountPane(app: HTMLElement, host: PaneHost, library: TableLibrary): Promise<PaneContext> {
-  const state = new PaneState();
-  const statusLine = h('p', { class: 'status', id: 'status', role: 'status', 'aria-live': 'polite' });
-  const tableName = h('span', { class: 'table-name', id: 'table-name' });
-  const demoBadge = h('span', { class: 'badge demo', id: 'demo-badge', hidden: true }, DEMO_MARKER);
-  const hostNote = h('p', { class: 'host-note', id: 'host-note', hidden: host.available }, host.label);
-  const tabs = h('div', { class: 'tabs', role: 'tablist', 'aria-label': 'Leeway views' });
-  const panels = h('div', { class: 'panels' });
-
-  const views = new Map<ViewId, { tab: HTMLButtonElement; panel: HTMLElement; view: View | null; make: (c: PaneContext) => View }>();
-  let current: ViewId = 'library';
-
-  const ctx: PaneContext = {
-    host,
-    library,
-    state,
-    status(message, kind = 'info') {
-      statusLine.className = `status ${kind}`;
-      statusLine.textContent = message;
+/** The status line: one message at a time, remembered with the view that raised it. */
+function statusLine(): { el: HTMLElement; show(message: string, kind: StatusKind, owner: string): void; clear(): void; clearUnlessOwner(owner: string): void } {
+  const el = h('p', { class: 'status', id: 'status', role: 'status', 'aria-live': 'polite' });
+  let owner = '';
+  return {
+    el,
+    show(message, kind, by) {
+      owner = by;
+      el.className = `status ${kind}`;
+      el.textContent = message;
     },
-    show(id) {
-      select(id, false);
+    clear() {
+      owner = '';
+      el.className = 'status';
+      el.textContent = '';
     },
-    async useTable(id) {
-      if (id === DEMO_ID) {
-        state.setTable(DEMO_ID, demoTable());
-        return;
-      }
-      const t = await library.get(id);
-      if (!t) {
-        ctx.status('That table could not be read from this computer’s storage; the demo table is in use instead.', 'error');
-        state.setTable(DEMO_ID, demoTable());
-        return;
-      }
-      state.setTable(id, t);
+    clearUnlessOwner(viewId) {
+      if (owner !== viewId) this.clear();
     },
   };
+}
 
-  function select(id: ViewId, focus: boolean): void {
-    current = id;
-    for (const [vid, v] of views) {
-      const on = vid === id;
-      v.tab.setAttribute('aria-selected', on ? 'true' : 'false');
-      v.tab.tabIndex = on ? 0 : -1;
-      v.panel.hidden = !on;
-      if (on) {
-        if (!v.view) {
-          v.view = v.make(ctx);
-          v.panel.appendChild(v.view.root);
-        }
-        v.view.refresh();
-      }
-    }
-    if (focus) views.get(id)?.tab.focus();
-  }
+function panelFor(entry: ViewEntry): HTMLElement {
+  const panel = h('section', { id: `panel-${entry.id}`, role: 'tabpanel', 'aria-labelledby': `tab-${entry.id}`, class: 'panel', tabindex: -1, hidden: true });
+  if (!entry.make) panel.appendChild(h('div', { class: 'view coming' }, h('h2', {}, entry.label), h('p', { class: 'hint' }, entry.meanwhile ?? 'Not in the pane yet.')));
+  return panel;
+}
 
-  for (const v of VIEWS) {
-    const tab = h('button', {
-      type: 'button',
-      role: 'tab',
-      id: `tab-${v.id}`,
-      'aria-controls': `panel-${v.id}`,
-      'aria-selected': 'false',
-      tabindex: -1,
-      class: 'tab',
-    }, v.label);
-    const panel = h('section', { id: `panel-${v.id}`, role: 'tabpanel', 'aria-labelledby': `tab-${v.id}`, class: 'panel', hidden: true });
-    tab.addEventListener('click', () => select(v.id, false));
-    tabs.appendChild(tab);
-    panels.appendChild(panel);
-    views.set(v.id, { tab, panel, view: null, make: v.make });
-  }
-  tabs.addEventListener('keydown', (e) => {
-    const ids = VIEWS.map((v) => v.id);
-    const i = ids.indexOf(current);
-    let next: number | null = null;
-    if (e.key === 'ArrowRight') next = (i + 1) % ids.length;
-    else if (e.key === 'ArrowLeft') next = (i - 1 + ids.length) % ids.length;
-    else if (e.key === 'Home') next = 0;
-    else if (e.key === 'End') next = ids.length - 1;
-    if (next !== null) {
-      e.preventDefault();
-      select(ids[next], true);
-    }
-  });
-
-  state.on((t) => {
-    if (t !== 'table' && t !== 'library') return;
-    const tbl = state.table;
-    tableName.textContent = tbl ? `${tbl.name} · ${tbl.rows.length} rows` : 'No table';
-    demoBadge.hidden = !(tbl && tbl.demo);
-    const v = views.get(current);
-    if (v && v.view) v.view.refresh();
-  });
-
+function cautionFooter(): HTMLElement {
   const caution = h(
     'details',
     { class: 'caution', id: 'caution' },
     h('summary', {}, h('span', { class: 'caution-mark', 'aria-hidden': 'true' }, '!'), 'Caution: read before using these figures'),
     h('p', {}, CAUTION),
   );
+  return h('footer', { class: 'bottom' }, caution);
+}
 
-  replace(
-    app,
-    h(
-      'header',
-      { class: 'top' },
-      h('div', { class: 'brand' }, h('span', { class: 'product' }, 'Leeway'), tableName),
-      demoBadge,
-      hostNote,
-    ),
-    tabs,
-    statusLine,
-    panels,
-    h('footer', { class: 'bottom' }, caution),
-  );
+function makeContext(host: PaneHost, library: TableLibrary, state: PaneState, status: ReturnType<typeof statusLine>, current: () => string, show: (id: string) => void): PaneContext {
+  const ctx: PaneContext = {
+    host,
+    library,
+    state,
+    status: (message, kind = 'info') => status.show(message, kind, current()),
+    async run(busy, action) {
+      const owner = current();
+      status.show(busy, 'busy', owner);
+      try {
+        const done = await action();
+        if (done) status.show(done, 'ok', owner);
+        else status.clear();
+        return true;
+      } catch (e) {
+        status.show(messageOf(e), 'error', owner);
+        return false;
+      }
+    },
+    show,
+    async useTable(id) {
+      const t = id === DEMO_ID ? demoTable() : await library.get(id);
+      if (!t) ctx.status('That table could not be read from this computer’s storage; the demo table is in use instead.', 'error');
+      state.setTable(t ? id : DEMO_ID, t ?? demoTable());
+    },
+  };
+  return ctx;
+}
+
+export async function mountPane(app: HTMLElement, host: PaneHost, library: TableLibrary): Promise<PaneContext> {
+  const state = new PaneState();
+  const status = statusLine();
+  const tableName = h('span', { class: 'table-name', id: 'table-name' });
+  const demoBadge = h('span', { class: 'badge demo', id: 'demo-badge', hidden: true }, DEMO_MARKER);
+  const hostNote = h('p', { class: 'host-note', id: 'host-note', hidden: host.available }, host.label);
+  const slots = new Map<string, Slot>(VIEWS.map((entry) => [entry.id, { entry, panel: panelFor(entry), view: null }]));
+  if (slots.size !== VIEWS.length) throw new Error('Two views share an id in views/index.ts.');
+  let current = VIEWS[0].id;
+
+  const ctx = makeContext(host, library, state, status, () => current, (id) => select(id, false));
+  const nav = buildNav(STEPS, VIEWS, { choose: (id, focus) => select(id, focus), enter: (id) => slots.get(id)?.panel.focus() });
+
+  function select(id: string, focus: boolean): void {
+    const slot = slots.get(id);
+    if (!slot) throw new Error(`No view “${id}” in views/index.ts.`);
+    current = id;
+    status.clearUnlessOwner(id);
+    nav.mark(id);
+    for (const s of slots.values()) s.panel.hidden = s !== slot;
+    if (slot.entry.make && !slot.view) {
+      slot.view = slot.entry.make(ctx);
+      slot.panel.appendChild(slot.view.root);
+    }
+    slot.view?.refresh();
+    if (focus) nav.viewTabs.get(id)?.focus();
+  }
+
+  state.on((t) => {
+    if (t !== 'table' && t !== 'library') return;
+    const tbl = state.table;
+    tableName.textContent = tbl ? `${tbl.name} · ${tbl.rows.length} rows` : 'No table';
+    demoBadge.hidden = !(tbl && tbl.demo);
+    slots.get(current)?.view?.refresh();
+  });
+
+  const brand = h('div', { class: 'brand' }, h('span', { class: 'product' }, 'Leeway'), tableName);
+  const panels = h('div', { class: 'panels' }, ...[...slots.values()].map((s) => s.panel));
+  replace(app, h('header', { class: 'top' }, brand, demoBadge, hostNote), nav.root, status.el, panels, cautionFooter());
   await ctx.useTable(DEMO_ID);
-  select('library', false);
+  select(VIEWS[0].id, false);
   return ctx;
 }

@@ -1,5 +1,5 @@
 /**
- * The built-in demo table (SPEC.md section 8), from src/engine/demo, always marked as demo
+ * The built-in demo table, from src/engine/demo, always marked as demo
  * data; and, for the what-if view, the demo's observed bias and CV computed from its invented
  * raw data by the DATA engine (within-lab CV of the replication study, one-way ANOVA by day;
  * mean percent bias against the EQA targets).

@@ -23,3 +23,9 @@ export function showFigure(f: Figure | undefined, as: 'num' | 'pct' = 'num'): st
 export function tierLabel(t: string): string {
   return t === 'fixed' ? 'Fixed limit' : t.charAt(0).toUpperCase() + t.slice(1);
 }
+
+/** Today as YYYY-MM-DD in the user's time zone (the provenance date). */
+export function today(d = new Date()): string {
+  const p = (n: number): string => String(n).padStart(2, '0');
+  return `${d.getFullYear()}-${p(d.getMonth() + 1)}-${p(d.getDate())}`;
+}

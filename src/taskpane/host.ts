@@ -41,7 +41,7 @@ export interface RangeRef {
   readonly address: string;
 }
 
-/** One summary row (issue 7): what the pane computed for one analyte. */
+/** One summary row: what the pane computed for one analyte. */
 export interface SummaryRow {
   readonly analyte: string;
   readonly specimen: string;

@@ -1,7 +1,7 @@
 /**
  * What the pane remembers while it is open: the table in use, the tiers chosen, the coverage,
  * the analytes picked and any observed bias/CV typed or read. Views read it and announce changes
- * through `changed`; nothing here touches the DOM or Excel.
+ * through its setters, which notify the listeners; nothing here touches the DOM or Excel.
  */
 import type { VariationRow, VariationTable } from '../engine/table';
 import type { Tier } from '../engine/tiers';
@@ -83,6 +83,46 @@ export class PaneState {
     this.observed.clear();
     if (table) for (const r of table.rows) this.selected.add(keyOf(r));
     this.changed('table');
+  }
+
+  setSheetTier(t: Tier): void {
+    this.sheetTier = t;
+    this.changed('tiers');
+  }
+
+  /** A tier for one analyte, or null to follow the sheet's tier. */
+  setAnalyteTier(key: string, t: Tier | null): void {
+    if (t === null) this.analyteTier.delete(key);
+    else this.analyteTier.set(key, t);
+    this.changed('tiers');
+  }
+
+  setCoverage(c: Coverage): void {
+    this.coverage = c;
+    this.changed('coverage');
+  }
+
+  /** Picks (or unpicks) analytes by key. */
+  pick(keys: Iterable<string>, on: boolean): void {
+    for (const k of keys) {
+      if (on) this.selected.add(k);
+      else this.selected.delete(k);
+    }
+    this.changed('selection');
+  }
+
+  /** Observed bias and CV for analytes by key (null removes them). */
+  setObserved(entries: Iterable<readonly [string, Observed | null]>): void {
+    for (const [k, o] of entries) {
+      if (o === null) this.observed.delete(k);
+      else this.observed.set(k, o);
+    }
+    this.changed('observed');
+  }
+
+  setFilled(f: FilledSheet | null): void {
+    this.filled = f;
+    this.changed('filled');
   }
 
   rows(): readonly VariationRow[] {

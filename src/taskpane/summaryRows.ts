@@ -1,5 +1,5 @@
 /**
- * The summary sheet's content (issue 7): one row per picked analyte with its tier, allowable
+ * The summary sheet's content: one row per picked analyte with its tier, allowable
  * total error at that tier, observed bias/CV/total error, sigma, the most stringent tier met and
  * the QC.PLAN choice, all from the engine; and the provenance and caution lines above it.
  * Pure, so the numbers can be checked without Excel.

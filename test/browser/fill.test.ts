@@ -14,7 +14,7 @@ import type { FillPlan } from '../../src/engine/fill';
 import { demoTable } from '../../src/engine/demo';
 import { rowKey } from '../../src/engine/table';
 import { zFromCoverage } from '../../src/engine/coverage';
-import { today } from '../../src/taskpane/views/fill';
+import { today } from '../../src/taskpane/format';
 
 async function pickRadio(page: Page, name: string, value: string): Promise<void> {
   await page.check(`input[name="${name}"][value="${value}"]`);

@@ -12,7 +12,12 @@ export interface LogEntry {
   args: unknown;
 }
 
-export async function view(page: Page, id: 'library' | 'fill' | 'compare' | 'qc' | 'summary'): Promise<void> {
+export type ViewName = 'library' | 'fill' | 'whatif' | 'verification' | 'qc' | 'review' | 'summary';
+
+/** Shows a view as a user does: its step in the first row of tabs, then the view in the second. */
+export async function view(page: Page, id: ViewName): Promise<void> {
+  const step = await page.getAttribute(`#tab-${id}`, 'data-step');
+  await page.click(`#step-${step}`);
   await page.click(`#tab-${id}`);
   await page.waitForSelector(`#panel-${id}:not([hidden])`);
 }

@@ -1,7 +1,7 @@
 /**
  * Task pane in Chromium: readable at the narrow default width (no sideways scrolling of the pane
  * at 320 px, on every view), usable by keyboard (tab list with arrow keys, visible focus ring,
- * every control named), the caution of SPEC.md section 9 always on screen, the bundle small and
+ * every control named), the caution always on screen, the bundle small and
  * free of remote code, and the pane starting in a plain browser with the real office.js.
  */
 import * as fs from 'fs';
@@ -11,7 +11,7 @@ import { describeInBrowser, DIST, usePane } from './harness';
 import { view, screenshot } from './helpers';
 import { CAUTION } from '../../src/engine/caution';
 
-const VIEWS = ['library', 'fill', 'compare', 'qc', 'summary'] as const;
+const VIEWS = ['library', 'fill', 'whatif', 'verification', 'qc', 'review', 'summary'] as const;
 
 /** Controls in the visible panel without an accessible name (label, aria-label or text). */
 async function unnamed(page: Page): Promise<string[]> {
@@ -35,7 +35,7 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
   test('at 320 px no view scrolls sideways, and every visible control has a name', async () => {
     const { context, page, errors } = await open({ width: 320 });
     // Put content in every view: observed figures for the demo, a fill check.
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#use-demo-observed');
     await view(page, 'fill');
     await page.click('#check-fill');
@@ -50,24 +50,54 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
     await context.close();
   });
 
-  test('the tab list works with arrow keys, Home and End; Tab moves into the view; focus is visible', async () => {
+  test('the navigation works by keyboard: arrows, Home and End in each row, Down/Enter into a step, Up back, Enter into a view', async () => {
     const { context, page } = await open();
-    await page.focus('#tab-library');
+    const active = (): Promise<string | undefined> => page.evaluate(() => document.activeElement?.id);
+    await page.focus('#step-specify');
+    // The first row: the steps of the job, arrows move and select.
     await page.keyboard.press('ArrowRight');
-    expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-fill');
+    expect(await active()).toBe('step-verify');
+    expect(await page.getAttribute('#step-verify', 'aria-selected')).toBe('true');
+    expect(await page.isVisible('#panel-verification')).toBe(true);
+    await page.keyboard.press('End');
+    expect(await active()).toBe('step-report');
+    expect(await page.isVisible('#panel-summary')).toBe(true);
+    await page.keyboard.press('ArrowRight');
+    expect(await active()).toBe('step-specify');
+    await page.keyboard.press('ArrowLeft');
+    expect(await active()).toBe('step-report');
+    await page.keyboard.press('Home');
+    expect(await active()).toBe('step-specify');
+    // Down goes to the step's views; arrows move and select among them only.
+    await page.keyboard.press('ArrowDown');
+    expect(await active()).toBe('tab-library');
+    await page.keyboard.press('ArrowRight');
+    expect(await active()).toBe('tab-fill');
     expect(await page.getAttribute('#tab-fill', 'aria-selected')).toBe('true');
     expect(await page.isVisible('#panel-fill')).toBe(true);
     await page.keyboard.press('End');
-    expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-summary');
+    expect(await active()).toBe('tab-whatif');
     await page.keyboard.press('ArrowRight');
-    expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-library');
+    expect(await active()).toBe('tab-library');
     await page.keyboard.press('ArrowLeft');
-    expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-summary');
+    expect(await active()).toBe('tab-whatif');
+    // Only the views of the chosen step are shown, and one tab per row is in the Tab order.
+    const tabs = await page.$$eval('[role="tab"]', (t) => t.filter((e) => (e as HTMLElement).offsetParent !== null).map((e) => `${e.id}:${(e as HTMLElement).tabIndex}`));
+    expect(tabs).toEqual(['step-specify:0', 'step-verify:-1', 'step-control:-1', 'step-report:-1', 'tab-library:-1', 'tab-fill:-1', 'tab-whatif:0']);
+    // Up returns to the steps; a step remembers the view last shown in it.
+    await page.keyboard.press('ArrowUp');
+    expect(await active()).toBe('step-specify');
+    await page.keyboard.press('End');
     await page.keyboard.press('Home');
-    expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-library');
-    // Only the selected tab is in the Tab order.
-    expect(await page.$$eval('[role="tab"]', (t) => t.map((e) => (e as HTMLElement).tabIndex))).toEqual([0, -1, -1, -1, -1]);
-    // Tab leaves the tab list into the view; the focused control shows a 2 px ring.
+    expect(await page.isVisible('#panel-whatif')).toBe(true);
+    await page.keyboard.press('Enter');
+    expect(await active()).toBe('tab-whatif');
+    // Enter on a view moves into its panel; Tab then reaches its first control, with a 2 px ring.
+    await page.keyboard.press('ArrowLeft');
+    await page.keyboard.press('ArrowLeft');
+    expect(await active()).toBe('tab-library');
+    await page.keyboard.press('Enter');
+    expect(await active()).toBe('panel-library');
     await page.keyboard.press('Tab');
     const focused = await page.evaluate(() => {
       const el = document.activeElement as HTMLElement;
@@ -79,12 +109,48 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
     await context.close();
   });
 
+  test('the navigation is ARIA-correct: every tab controls an existing panel labelled by it, rows are named', async () => {
+    const { context, page } = await open();
+    for (const step of ['specify', 'verify', 'control', 'report']) {
+      await page.click(`#step-${step}`);
+      const report = await page.evaluate(() => {
+        const problems: string[] = [];
+        for (const list of Array.from(document.querySelectorAll('[role="tablist"]'))) {
+          if (!list.getAttribute('aria-label')) problems.push(`unnamed tablist ${list.id}`);
+          const selected = Array.from(list.querySelectorAll('[role="tab"]')).filter((t) => t.getAttribute('aria-selected') === 'true');
+          if (selected.length !== 1) problems.push(`${selected.length} selected in ${list.getAttribute('aria-label')}`);
+        }
+        for (const t of Array.from(document.querySelectorAll('[role="tab"]'))) {
+          const panel = document.getElementById(t.getAttribute('aria-controls') ?? '');
+          if (!panel || panel.getAttribute('role') !== 'tabpanel') problems.push(`${t.id} controls no tabpanel`);
+          else if (t.getAttribute('aria-selected') === 'true' && panel.getAttribute('aria-labelledby') !== t.id) problems.push(`${panel.id} not labelled by ${t.id}`);
+        }
+        return problems;
+      });
+      expect({ step, report }).toEqual({ step, report: [] });
+    }
+    await context.close();
+  });
+
+  test('an error from one view does not stay on screen in another', async () => {
+    const { context, page } = await open();
+    await view(page, 'whatif');
+    // The fake workbook's active sheet is empty: reading the active row fails with a message.
+    await page.click('#read-active-row');
+    await page.waitForFunction(() => document.querySelector('#status')?.classList.contains('error'));
+    for (const v of ['qc', 'summary'] as const) {
+      await view(page, v);
+      expect({ v, status: await page.textContent('#status') }).toEqual({ v, status: '' });
+    }
+    await context.close();
+  });
+
   test('a what-if can be done by keyboard alone', async () => {
     const { context, page } = await open();
-    await page.focus('#tab-library');
-    await page.keyboard.press('ArrowRight');
-    await page.keyboard.press('ArrowRight');
-    expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-compare');
+    await page.focus('#step-specify');
+    await page.keyboard.press('ArrowDown');
+    await page.keyboard.press('End');
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('tab-whatif');
     await page.keyboard.press('Tab'); // analyte
     await page.keyboard.press('ArrowDown'); // next analyte
     await page.keyboard.press('Tab'); // bias
@@ -96,7 +162,7 @@ describeInBrowser('task pane: narrow width, keyboard, caution', () => {
     await context.close();
   });
 
-  test('the caution is on screen in every view and opens by keyboard to the full text of SPEC.md section 9', async () => {
+  test('the caution is on screen in every view and opens by keyboard to its full text', async () => {
     const { context, page } = await open({ height: 600 });
     for (const v of VIEWS) {
       await view(page, v);

@@ -127,7 +127,7 @@ describeInBrowser('task pane: QC design and summary', () => {
 
   test('from an analyte: its tier’s allowable total error and its observed figures feed the plan', async () => {
     const { context, page } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#use-demo-observed');
     await view(page, 'qc');
     const r = demoTable().rows[0];
@@ -144,7 +144,7 @@ describeInBrowser('task pane: QC design and summary', () => {
 
   test('the summary sheet request: one row per analyte with the engine’s figures, the provenance and the caution', async () => {
     const { context, page } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#use-demo-observed');
     await view(page, 'summary');
     await page.waitForSelector('#summary-table');

@@ -209,7 +209,7 @@ describeInBrowser('task pane: variation tables', () => {
     await view(page, 'fill');
     const names = await page.$$eval('#analyte-list .name', (els) => els.map((e) => e.textContent));
     expect(names).toEqual(['<img src=x onerror="window.__xss=1"> (serum)', '<b>Boldane</b> (plasma)', '=HYPERLINK("http://example.invalid") (serum)']);
-    await view(page, 'compare');
+    await view(page, 'whatif');
     const options = await page.$$eval('#whatif-analyte option', (els) => els.map((e) => e.textContent));
     expect(options[0]).toBe('<img src=x onerror="window.__xss=1"> (serum)');
     await view(page, 'library');

@@ -32,7 +32,7 @@ describeInBrowser('task pane: what-if', () => {
 
   test('the three tiers shown equal the engine’s SPEC.TIERS, in the table and in the chart', async () => {
     const { context, page, errors } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     for (const r of demoTable().rows.slice(0, 4)) {
       await page.selectOption('#whatif-analyte', rowKey(r.analyte, r.specimen));
       const engine = tierTable(r.cvi, r.cvg as number, 1.65);
@@ -52,7 +52,7 @@ describeInBrowser('task pane: what-if', () => {
 
   test('observed bias and CV typed give the engine’s observed total error, sigma, share and tier met', async () => {
     const { context, page } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     const r = demoTable().rows[0];
     const cvg = r.cvg as number;
     const cases = [
@@ -89,7 +89,7 @@ describeInBrowser('task pane: what-if', () => {
       [r.analyte, r.specimen, -0.8, 1.7],
     ]);
     await setActive(page, { sheet: 'Sheet1', activeRow: 3 });
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#read-active-row');
     await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Read'));
     expect(await page.$eval('#whatif-analyte', (e) => (e as HTMLSelectElement).value)).toBe(rowKey(r.analyte, r.specimen));
@@ -110,12 +110,12 @@ describeInBrowser('task pane: what-if', () => {
 
   test('the tier cell of the filled sheet is changed from the pane', async () => {
     const { context, page } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     expect(await page.isDisabled('#apply-tier')).toBe(true);
     await view(page, 'fill');
     await checkAndFill(page);
     const plan = await lastCall<FillPlan>(page, 'writeFill');
-    await view(page, 'compare');
+    await view(page, 'whatif');
     expect(await page.textContent('#tier-cell')).toContain(`tier cell ${plan.tierCell} (now desirable)`);
     await page.check('#tier-cell input[value="optimum"]');
     await page.click('#apply-tier');
@@ -134,7 +134,7 @@ describeInBrowser('task pane: what-if', () => {
     const later = await open();
     const page2 = later.page;
     await page2.evaluate((pl) => (window as unknown as { leewayTestHost: { writeFill: (x: unknown) => Promise<unknown> } }).leewayTestHost.writeFill(pl), { ...plan, cells: plan.cells.map((c) => (c.address === plan.tierCell.replace(/\$/g, '') ? { ...c, content: { kind: 'text', text: 'optimum' } } : c)) });
-    await view(page2, 'compare');
+    await view(page2, 'whatif');
     expect(await page2.isDisabled('#apply-tier')).toBe(true);
     await page2.click('#find-tier-cell');
     await page2.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Found'));
@@ -148,7 +148,7 @@ describeInBrowser('task pane: what-if', () => {
 
   test('the demo’s invented study results fill every demo analyte; the menu counts the tiers met', async () => {
     const { context, page } = await open();
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#use-demo-observed');
     const n = demoTable().rows.length;
     expect(await page.$$eval('#menu-table tbody tr', (t) => t.length)).toBe(n);
@@ -176,7 +176,7 @@ describeInBrowser('task pane: what-if', () => {
     // Switching to the view renders the detail and the 1,000-row table synchronously.
     const openMs = await page.evaluate(() => {
       const t0 = performance.now();
-      (document.querySelector('#tab-compare') as HTMLButtonElement).click();
+      (document.querySelector('#tab-whatif') as HTMLButtonElement).click();
       return performance.now() - t0;
     });
     await page.click('#read-sheet-observed');
@@ -199,7 +199,7 @@ describeInBrowser('task pane: what-if', () => {
       [6.94, 1.2, 0, '=LEEWAY.PERF.SIGMA(A2,B2,C2)'],
     ]);
     await setActive(page, { sheet: 'Sheet1', activeCell: { sheet: 'Sheet1', address: 'D2' } });
-    await view(page, 'compare');
+    await view(page, 'whatif');
     await page.click('#explain-cell');
     await page.waitForSelector('#explain-message');
     const want = evaluate('PERF.SIGMA', [6.94, 1.2, 0])[0][0] as { error: string; message: string };

@@ -114,7 +114,7 @@ describe('summary sheet (office-addin-mock)', () => {
     expect(values[1][0]).toBe('Analyte 0 (serum)');
     // A rule such as 1-3s/2-2s/R-4s would be read by Excel as a date or a number: it goes in as text.
     expect(values[1][8]).toBe(`'${req.rows[0].rule}`);
-    // The header lines carry the provenance and the caution (SPEC.md section 9).
+    // The header lines carry the provenance and the caution.
     const top = m.ranges.find((r) => r.address === `A1:A${req.header.length}`)!;
     const lines = (top.mock.values as string[][]).map((l) => l[0]);
     expect(lines.some((l) => l.includes(CAUTION))).toBe(true);

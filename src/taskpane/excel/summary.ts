@@ -1,5 +1,5 @@
 /**
- * Writes the summary sheet (issue 7) and its chart of sigma by analyte in one batch: a single
+ * Writes the summary sheet and its chart of sigma by analyte in one batch: a single
  * sync whatever the number of analytes — the header lines, the whole table as one values array,
  * one number-format array per numeric column, and the chart. The caller picks a sheet name not
  * yet taken (paneHost.ts reads the names first).

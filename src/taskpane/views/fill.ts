@@ -9,7 +9,7 @@
  * goes. The Excel writer then writes the whole plan in one batch.
  */
 import { h, replace, field, radioGroup, uid } from '../dom';
-import type { PaneContext, View } from '../app';
+import type { PaneContext, View } from '../view';
 import { readDecimal, FIELDS } from '../../engine/table';
 import type { VariationRow } from '../../engine/table';
 import { TIERS } from '../../engine/tiers';
@@ -20,7 +20,7 @@ import type { TargetSheet } from '../host';
 import { zOf } from '../state';
 import type { CoverageMode } from '../state';
 import { filterRows, keyOf, displayName, specimensOf, attrKey } from '../analytes';
-import { fmt, tierLabel } from '../format';
+import { fmt, tierLabel, today } from '../format';
 import { DEMO_MARKER } from '../../engine/caution';
 
 /** Rows listed at once in the picker; the search narrows a longer table. */
@@ -31,12 +31,6 @@ const CONFLICT_LIMIT = 50;
 type Where = 'new-sheet' | 'range' | 'template';
 
 const FILL_FIELDS: readonly FillField[] = [...FIELDS, 'tier', ...DERIVED_FIELDS];
-
-/** Today as YYYY-MM-DD in the user's time zone (the provenance date). */
-export function today(d = new Date()): string {
-  const p = (n: number): string => String(n).padStart(2, '0');
-  return `${d.getFullYear()}-${p(d.getMonth() + 1)}-${p(d.getDate())}`;
-}
 
 export function fillView(ctx: PaneContext): View {
   const { state } = ctx;

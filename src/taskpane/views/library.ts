@@ -6,7 +6,7 @@
  * built in and always marked as demo data.
  */
 import { h, replace, field, uid } from '../dom';
-import type { PaneContext, View } from '../app';
+import type { PaneContext, View } from '../view';
 import {
   acceptImport,
   FIELDS,

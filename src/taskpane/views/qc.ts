@@ -5,7 +5,7 @@
  * axis, so switching analytes redraws within a frame once they are known.
  */
 import { h, replace, field, uid } from '../dom';
-import type { PaneContext, View } from '../app';
+import type { PaneContext, View } from '../view';
 import { readDecimal } from '../../engine/table';
 import type { VariationRow } from '../../engine/table';
 import { planQc, QC_CANDIDATES, DEFAULT_TARGET, DEFAULT_FALSE_REJECTION_LIMIT, PLAN_Z } from '../../engine/qc/plan';

@@ -6,7 +6,7 @@
  * analyte at once, and the control that changes the tier cell of a filled sheet.
  */
 import { h, replace, field, radioGroup, uid } from '../dom';
-import type { PaneContext, View } from '../app';
+import type { PaneContext, View } from '../view';
 import type { VariationRow } from '../../engine/table';
 import { readDecimal } from '../../engine/table';
 import { TIERS } from '../../engine/tiers';
@@ -29,9 +29,9 @@ function inputOf(r: VariationRow, z: number, obs: { bias: number; cv: number } |
   return { cvi: r.cvi, cvg: r.cvg, z, observed: obs, limits: r };
 }
 
-export function compareView(ctx: PaneContext): View {
+export function whatIfView(ctx: PaneContext): View {
   const { state } = ctx;
-  const root = h('div', { class: 'view compare' });
+  const root = h('div', { class: 'view whatif' });
   const pickBox = h('div', { class: 'pick' });
   const detail = h('div', { class: 'detail', id: 'whatif-detail', 'aria-live': 'polite' });
   const menu = h('div', { class: 'menu', id: 'whatif-menu' });
