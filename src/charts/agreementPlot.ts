@@ -47,7 +47,7 @@ const CHAR_EM = 0.62;
 const POINT_INK = '#24527a';
 const MEAN_INK = '#3d6b45';
 const LIMIT_INK = '#8a4b16';
-const BAND_OPACITY = '0.16';
+const BAND_OPACITY = '0.12';
 
 function f(x: number): string {
   const s = x.toFixed(2);

@@ -278,6 +278,10 @@ describe('review of control results', () => {
     expect(c).toMatchObject({ values: 0, runs: null, levels: null });
     const [flags] = reviewBlock(g, c, PROV);
     expect(flags.cells[0][0]?.content).toEqual({ kind: 'formula', formula: '=LEEWAY.QC.FLAGS($C$2:$C$6,100,2,"1-2s")' });
+    const out = reviewControls(g, c);
+    if ('error' in out) throw new Error(out.error);
+    expect(out.flags).toEqual(evaluate('QC.FLAGS', [one.values, 100, 2, '1-2s']).map((r) => r[0]));
+    expect(out.series).toHaveLength(1);
   });
 
   test('a missing SD, a bad rule and a role given twice have clear messages', () => {

@@ -136,6 +136,8 @@ export interface ReviewOutcome {
   readonly figures: Record<string, Figure>;
   readonly series: ChartSeries[];
   readonly flagged: FlagLine[];
+  /** The sheet row of each point of the chart, by "material|index" (as chartSeries numbers them). */
+  readonly rowOfPoint: ReadonlyMap<string, number>;
 }
 
 const labelOf = (v: GridCell): string => (v === null || v === undefined ? '' : String(v).trim());
@@ -153,7 +155,7 @@ export function reviewControls(g: StudyGrid, c: ReviewChoice): ReviewOutcome | {
   const figures = labelledFigures('QC.REVIEW', a);
   let ev: ControlEvaluation;
   try {
-    ev = evaluateControls(controlSeries(a[0] as Grid, a[1] as Grid, a[2] as Grid, parseRule(c.rule), a[4] as Grid | undefined, a[5] as Grid | undefined));
+    ev = evaluateControls(controlSeries(a[0] as Grid, a[1] as Grid, a[2] as Grid, parseRule(c.rule), (a[4] ?? undefined) as Grid | undefined, (a[5] ?? undefined) as Grid | undefined));
   } catch (e) {
     if (isLeewayError(e)) return { error: `${e.code} ${e.message}` };
     throw e;
@@ -170,7 +172,9 @@ export function reviewControls(g: StudyGrid, c: ReviewChoice): ReviewOutcome | {
       flags: f,
     });
   });
-  return { flags, figures, series: chartSeries(ev), flagged };
+  const rowOfPoint = new Map<string, number>();
+  for (let i = 0; i < ev.z.length; i++) if (ev.z[i] !== null) rowOfPoint.set(`${ev.levelLabels[ev.level[i]]}|${ev.position[i] + 1}`, g.top + i);
+  return { flags, figures, series: chartSeries(ev), flagged, rowOfPoint };
 }
 
 /** The labels of QC.REVIEW's spill, as the catalogue gives them. */
