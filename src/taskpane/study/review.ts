@@ -21,7 +21,7 @@ import { chartSeries } from '../../charts/controlChart';
 import type { ChartSeries } from '../../charts/controlChart';
 import { asColumnGrid, columnRef, refuseNumbersAsText, SelectionProblem, studyGrid } from './columns';
 import type { StudyColumn, StudyGrid } from './columns';
-import { callText, cautionRows, formula, headRows, indexFormula, isError, labelledFigures, numberText, padRow, text, wordText } from './figures';
+import { callText, cautionRows, formula, headRows, indexFormula, isError, labelledFigures, numberText, text, wordText } from './figures';
 import type { Figure, Provenance } from './figures';
 
 /** The target or the SD: one number for every result, or a column of the selection. */
@@ -205,15 +205,19 @@ export function reviewBlock(g: StudyGrid, c: ReviewChoice, p: Provenance): Block
   for (let i = 1; i < rows; i++) flagCells.push([null]);
   const flags: BlockArea = { row: g.headerRow ?? g.top, col: flagCol, cells: flagCells, widths: [FLAGS_WIDTH] };
 
-  const width = 2;
-  const wrap = REVIEW_LABEL_WIDTH + REVIEW_VALUE_WIDTH;
-  const body: (BlockCell | null)[][] = [padRow([text('Figure', 'header'), text('Value', 'header')], width)];
-  for (const label of REVIEW_LABELS) body.push([text(label, 'label'), formula(indexFormula('QC.REVIEW', r, label), REVIEW_FORMATS[label] ?? '0')]);
+  // Below a table of three or more columns, each label runs over the empty cells to its right
+  // and the value sits under the table's last column: the table's own widths stay as they are.
+  // Below one or two columns, the first column is widened to hold the labels.
+  const width = Math.max(2, g.columns.length);
+  const wrap = width > 2 ? Math.max(40, width * 9) : REVIEW_LABEL_WIDTH + REVIEW_VALUE_WIDTH;
+  const row = (label: BlockCell, value: BlockCell): (BlockCell | null)[] => [label, ...new Array<null>(width - 2).fill(null), value];
+  const body: (BlockCell | null)[][] = [row(text('Figure', 'header'), text('Value', 'header'))];
+  for (const label of REVIEW_LABELS) body.push(row(text(label, 'label'), formula(indexFormula('QC.REVIEW', r, label), REVIEW_FORMATS[label] ?? '0')));
   const review: BlockArea = {
     row: g.bottom + 2,
     col: g.columns[0].col,
     cells: [...headRows(p, width, wrap), ...body, ...cautionRows(width, wrap)],
-    widths: [REVIEW_LABEL_WIDTH, REVIEW_VALUE_WIDTH],
+    ...(width > 2 ? {} : { widths: [REVIEW_LABEL_WIDTH, REVIEW_VALUE_WIDTH] }),
   };
   return [flags, review];
 }
