@@ -25,15 +25,16 @@ export async function writeAreas(host: PaneHost, sheet: string, areas: BlockArea
 
 /** Asked when the block's place holds something: replace, or leave the sheet as it is. */
 export function renderConfirm(prefix: string, addresses: readonly string[], replace: () => void, cancel: () => void): HTMLElement {
-  const yes = h('button', { type: 'button', class: 'primary', id: `${prefix}-replace` }, 'Replace them');
+  const one = addresses.length === 1;
+  const yes = h('button', { type: 'button', class: 'primary', id: `${prefix}-replace` }, one ? 'Replace it' : 'Replace them');
   const no = h('button', { type: 'button', id: `${prefix}-keep` }, 'Keep the sheet as it is');
   yes.addEventListener('click', replace);
   no.addEventListener('click', cancel);
   return h(
     'div',
     { class: 'confirm', role: 'alertdialog', 'aria-labelledby': `${prefix}-confirm-title` },
-    h('h3', { id: `${prefix}-confirm-title` }, `${addresses.length} cell${addresses.length === 1 ? '' : 's'} already hold something`),
-    h('p', {}, `${addresses.slice(0, 8).join(', ')}${addresses.length > 8 ? ', …' : ''}. Replacing them loses what they hold.`),
+    h('h3', { id: `${prefix}-confirm-title` }, one ? '1 cell already holds something' : `${addresses.length} cells already hold something`),
+    h('p', {}, `${addresses.slice(0, 8).join(', ')}${addresses.length > 8 ? ', …' : ''}. ${one ? 'Replacing it loses what it holds.' : 'Replacing them loses what they hold.'}`),
     h('div', { class: 'actions' }, yes, no),
   );
 }

@@ -170,7 +170,7 @@ export class HostError extends Error {}
 export class OccupiedError extends HostError {
   constructor(readonly addresses: readonly string[]) {
     super(
-      `${addresses.length} cell${addresses.length === 1 ? '' : 's'} where the block goes already hold something ` +
+      `${addresses.length === 1 ? '1 cell where the block goes already holds' : `${addresses.length} cells where the block goes already hold`} something ` +
         `(${addresses.slice(0, 5).join(', ')}${addresses.length > 5 ? ', …' : ''}): nothing was written. ` +
         'Confirm replacing them, or make room beside the data.',
     );

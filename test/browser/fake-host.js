@@ -172,7 +172,7 @@
         if (m.has(key(a.row + i, a.col + j))) taken.push(letters(a.col + j) + (a.row + i));
       }));
       if (taken.length && !req.overwrite) {
-        const e = new Error(taken.length + ' cells where the block goes already hold something (' + taken.slice(0, 5).join(', ') + '): nothing was written. Confirm replacing them, or make room beside the data.');
+        const e = new Error((taken.length === 1 ? '1 cell where the block goes already holds' : taken.length + ' cells where the block goes already hold') + ' something (' + taken.slice(0, 5).join(', ') + '): nothing was written. Confirm replacing them, or make room beside the data.');
         e.name = 'OccupiedError';
         e.addresses = taken;
         throw e;

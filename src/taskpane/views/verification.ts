@@ -71,7 +71,9 @@ function inputOf(ctx: PaneContext, s: VerifyState): { v: VerificationInput; spec
     bias: r ? observedBias(ctx.state, r) : null,
   };
   const bias = v.bias ? ` Without an assigned value, sigma uses the bias ${v.bias.value} % ${v.bias.from}.` : ' Without an assigned value (or a bias in What-if) there is no sigma.';
-  const specNote = typeof spec === 'string' ? spec : `Sigma against the allowable total error of ${spec.from}.${bias}`;
+  const n = s.study.materials.length;
+  const shared = n > 1 ? ` ${n} materials in one study: α = 0.05 is shared among them (samples = ${n}).` : '';
+  const specNote = (typeof spec === 'string' ? spec : `Sigma against the allowable total error of ${spec.from}.${bias}`) + shared;
   return { v, specNote };
 }
 
