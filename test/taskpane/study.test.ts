@@ -19,6 +19,10 @@ import { SelectionProblem } from '../../src/taskpane/study/columns';
 import type { Figure } from '../../src/taskpane/study/figures';
 import { a1 } from '../../src/engine/fill';
 import { CAUTION } from '../../src/engine/caution';
+import { defaultRule, FALLBACK_RULE } from '../../src/taskpane/views/review';
+import { PaneState } from '../../src/taskpane/state';
+import { demoTable } from '../../src/taskpane/demo';
+import { keyOf } from '../../src/taskpane/analytes';
 
 type Cell = string | number | boolean | null;
 
@@ -302,4 +306,27 @@ describe('review of control results', () => {
 // Keeps the helper honest: a1 is the addressing the blocks use.
 test('addresses as the blocks write them', () => {
   expect(a1({ row: 2, col: 5 })).toBe('E2');
+});
+
+describe('the rule a review starts from', () => {
+  test('is the QC plan of the analyte in use (QC.PLAN against its tier’s allowable total error)', () => {
+    const state = new PaneState();
+    state.setTable('demo', demoTable());
+    const r = state.rows().find((x) => x.cvg !== null)!;
+    state.setObserved([[keyOf(r), { bias: 0.8, cv: 1.1, from: 'typed' }]]);
+    state.setAnalyteTier(keyOf(r), 'minimum');
+    const allowable = evaluate('SPEC.TOTAL', [r.cvi, r.cvg, 'minimum', 1.65])[0][0] as number;
+    const plan = evaluate('QC.PLAN', [allowable, 0.8, 1.1]);
+    const d = defaultRule(state, r);
+    expect(d.rule).toBe(plan[1][0]);
+    expect(d.from).toMatch(/^the QC plan of .* at the minimum tier \(set for this analyte\), n = /);
+  });
+
+  test('is the common multirule, with the reason, when the analyte has no observed bias and CV', () => {
+    const state = new PaneState();
+    state.setTable('demo', demoTable());
+    const d = defaultRule(state, state.rows()[0]);
+    expect(d.rule).toBe(FALLBACK_RULE);
+    expect(d.from).toMatch(/no observed bias and CV/);
+  });
 });
