@@ -174,6 +174,13 @@ describe('verification of a replication study', () => {
     expect(typeof m.figures.get('rCv')).toBe('number');
   });
 
+  test('blank rows at the end of the selection (a whole column selected) are left out', () => {
+    const tall: CellGrid = { ...replication, address: 'Sheet1!A1:C40', values: [...replication.values, ...Array.from({ length: 24 }, () => ['', '', ''])] };
+    const s = readReplication(tall);
+    expect(s.grid.bottom).toBe(16);
+    expect(verificationBlock({ ...v, study: s }, PROV).cells.flat().some((c) => c?.content.kind === 'formula' && c.content.formula.includes('$B$2:$B$16'))).toBe(true);
+  });
+
   test('bad selections say what to select', () => {
     const one: CellGrid = { ...replication, values: replication.values.map((r) => [r[0]]) };
     expect(() => readReplication(one)).toThrow(/run or day labels and, beside them, one column of results per material/);

@@ -47,14 +47,18 @@ function hasHeader(values: readonly (readonly GridCell[])[]): boolean {
 
 /** The selection as header and columns. */
 export function studyGrid(grid: CellGrid): StudyGrid {
-  const header = hasHeader(grid.values);
-  const width = grid.values.reduce((m, r) => Math.max(m, r.length), 0);
-  const body = header ? grid.values.slice(1) : grid.values;
+  // Blank rows at the end (a whole column selected) are not part of the study.
+  let last = grid.values.length;
+  while (last > 0 && grid.values[last - 1].every(isBlank)) last--;
+  const values = grid.values.slice(0, last);
+  const header = hasHeader(values);
+  const width = values.reduce((m, r) => Math.max(m, r.length), 0);
+  const body = header ? values.slice(1) : values;
   const top = grid.firstRow + (header ? 1 : 0);
   const columns: StudyColumn[] = [];
   for (let j = 0; j < width; j++) {
     const col = grid.firstColumn + j;
-    const h = header ? grid.values[0][j] : null;
+    const h = header ? values[0][j] : null;
     const name = typeof h === 'string' && h.trim() !== '' ? h.trim() : `Column ${columnLetters(col)}`;
     columns.push({ name, col, cells: body.map((r) => r[j] ?? null) });
   }
