@@ -74,6 +74,12 @@ describeInBrowser('task pane: verification', () => {
     expect(await page.isVisible(`${m1} [data-key="sigma"]`)).toBe(true);
     expect(await page.locator(`${m2} [data-key="sigma"]`).count()).toBe(0);
     await shot(page, 'verification-replication.png');
+    // A material with trueness and a within-lab CV can hand them to What-if, QC and Summary.
+    expect(await page.locator('#verify-use-1').count()).toBe(0);
+    await page.click('#verify-use-0');
+    expect(await statusText(page)).toMatch(new RegExp(`observed bias ${fmt(tr[3] as number)} % and CV ${fmt(evaluate('DATA.PRECISION', [col(L1), col(RUNS)])[1][5] as number)} % from verification of Sheet1!A1:C16 \\(Level 1\\)`));
+    await view(page, 'qc');
+    expect(await page.inputValue('#qc-bias')).toBe(String(tr[3]));
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -12,7 +12,8 @@ import type { GridCell } from '../../engine/table';
 import type { VariationRow } from '../../engine/table';
 import { keyOf, displayName } from '../analytes';
 import { readReplication, verificationBlock, verificationFigures } from '../study/verification';
-import type { Given, MaterialInput, ReplicationStudy, VerificationInput } from '../study/verification';
+import type { Given, MaterialFigures, MaterialInput, ReplicationStudy, VerificationInput } from '../study/verification';
+import { fmt } from '../format';
 import { agreementBlock, agreementFigures, plotInput, readComparison } from '../study/agreement';
 import type { ComparisonStudy, Scale } from '../study/agreement';
 import { observedBias, provenance, readTyped, specFor } from '../study/inputs';
@@ -87,7 +88,9 @@ async function readGivenCells(ctx: PaneContext, local: ViewState<VerifyState>): 
   const values = await ctx.host.readRanges(cells.map((c) => ({ sheet: c.sheet ?? sheet, address: c.address })));
   const next = new Map(s.cells);
   cells.forEach((c, i) => next.set(cellKey(c.sheet ?? sheet, c.address), values[i]?.[0]?.[0] ?? null));
-  local.set({ cells: next });
+  // Unchanged values leave the view as it is (a re-render under a click would swallow it).
+  const changed = next.size !== s.cells.size || [...next].some(([k, v]) => s.cells.get(k) !== v);
+  if (changed) local.set({ cells: next });
 }
 
 /** Reads the selection as the chosen kind of study. */
@@ -144,11 +147,30 @@ function analyteField(ctx: PaneContext, local: ViewState<VerifyState>): HTMLElem
   return field('Analyte (its specification for sigma)', select);
 }
 
+/**
+ * Offered where a material has both a trueness bias and a within-lab CV: they become the
+ * analyte's observed bias and CV, which What-if, QC and Summary read.
+ */
+function useAsObserved(ctx: PaneContext, s: VerifyState, m: MaterialFigures): { label: string; onUse: () => void } | undefined {
+  const r = analyteRow(ctx, s.analyte);
+  const bias = m.figures.get('biasPct');
+  const cv = m.figures.get('wlCv');
+  if (!r || !s.study || typeof bias !== 'number' || typeof cv !== 'number') return undefined;
+  const from = `verification of ${s.study.grid.address} (${m.name})`;
+  return {
+    label: `Use for ${displayName(r)} in What-if, QC, Summary`,
+    onUse: () => {
+      ctx.state.setObserved([[keyOf(r), { bias, cv, from }]]);
+      ctx.status(`${displayName(r)}: observed bias ${fmt(bias)} % and CV ${fmt(cv)} % from ${from}, now used by What-if, QC and Summary.`, 'ok');
+    },
+  };
+}
+
 /** The results area for a replication study. */
 function replicationResults(ctx: PaneContext, s: VerifyState): HTMLElement[] {
   const input = inputOf(ctx, s);
   if (!input) return [h('p', { class: 'hint' }, 'Select the study on the sheet — run or day labels in the first column, one column of results per material — and read it.')];
-  return [h('p', { class: 'context', id: 'verify-spec' }, input.specNote), ...verificationFigures(input.v).map((m, i) => renderMaterial(m, i))];
+  return [h('p', { class: 'context', id: 'verify-spec' }, input.specNote), ...verificationFigures(input.v).map((m, i) => renderMaterial(m, i, useAsObserved(ctx, s, m)))];
 }
 
 function comparisonResults(s: VerifyState, width: number): HTMLElement[] {

@@ -45,7 +45,7 @@ function range(f: ReadonlyMap<string, Figure>, lo: string, hi: string, unit: str
 }
 
 /** One material's figures, in the order of the study: precision, then trueness, then sigma. */
-export function renderMaterial(m: MaterialFigures, index: number): HTMLElement {
+export function renderMaterial(m: MaterialFigures, index: number, use?: { label: string; onUse: () => void }): HTMLElement {
   const f = m.figures;
   const kids: Child[] = [
     ...fact('Results', `${show(f.get('results'), 0)} in ${show(f.get('groups'), 0)} runs; mean ${show(f.get('mean'), 3)}`),
@@ -66,7 +66,13 @@ export function renderMaterial(m: MaterialFigures, index: number): HTMLElement {
   if (f.has('sigma')) {
     kids.push(...fact('Sigma', `${show(f.get('sigma'))}${range(f, 'sigmaLow', 'sigmaHigh', '')}`, '', 'sigma'), ...fact('with bias', `${show(f.get('sigmaBias'))} % (u ${show(f.get('uBias'))} %)`));
   }
-  return h('section', { class: 'card material', 'data-material': m.name, 'aria-labelledby': `material-${index}` }, h('h3', { class: 'card-title', id: `material-${index}` }, m.name), h('dl', { class: 'facts' }, ...kids));
+  let action: HTMLElement | null = null;
+  if (use) {
+    const button = h('button', { type: 'button', class: 'use-observed', id: `verify-use-${index}` }, use.label);
+    button.addEventListener('click', use.onUse);
+    action = h('div', { class: 'actions' }, button);
+  }
+  return h('section', { class: 'card material', 'data-material': m.name, 'aria-labelledby': `material-${index}` }, h('h3', { class: 'card-title', id: `material-${index}` }, m.name), h('dl', { class: 'facts' }, ...kids), action);
 }
 
 /** A text input for one typed figure, with its problem (if any) under it. */
