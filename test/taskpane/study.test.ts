@@ -17,7 +17,6 @@ import { checkChoice, guessChoice, readControls, reviewBlock, reviewControls } f
 import type { ReviewChoice } from '../../src/taskpane/study/review';
 import { SelectionProblem } from '../../src/taskpane/study/columns';
 import type { Figure } from '../../src/taskpane/study/figures';
-import { a1 } from '../../src/engine/fill';
 import { CAUTION } from '../../src/engine/caution';
 import { defaultRule, FALLBACK_RULE } from '../../src/taskpane/views/review';
 import { PaneState } from '../../src/taskpane/state';
@@ -308,11 +307,6 @@ describe('review of control results', () => {
     const zero = reviewControls(g, { ...c, sd: { kind: 'number', value: 0 } });
     expect('error' in zero && zero.error).toMatch(/^#/);
   });
-});
-
-// Keeps the helper honest: a1 is the addressing the blocks use.
-test('addresses as the blocks write them', () => {
-  expect(a1({ row: 2, col: 5 })).toBe('E2');
 });
 
 describe('the rule a review starts from', () => {

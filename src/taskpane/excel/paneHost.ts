@@ -1,5 +1,5 @@
 /**
- * The real PaneHost: the other engineer's SheetIO (sheetio.ts) for the fill's reads and writes
+ * The real PaneHost: the SheetIO (sheetio.ts) for the fill's reads and writes
  * and the table import, the pane's own reads (read.ts), the tier-cell writer and the summary
  * writer. Each method is one Excel.run.
  */
