@@ -77,7 +77,7 @@ function tickText(t: number, step: number): string {
   return t.toFixed(Math.min(6, decimals)).replace('-', '−');
 }
 
-/** The plot as an SVG document. Throws a RangeError for a width outside 200–4000 px or a non-finite input. */
+/** The plot as SVG text. Throws a RangeError for a width outside 200–4000 px or a non-finite input. */
 export function agreementPlotSvg(input: AgreementPlotInput): string {
   const W = input.width ?? 288;
   if (!(W >= 200 && W <= 4000)) throw new RangeError(`plot width must be 200 to 4000 px (got ${W})`);
