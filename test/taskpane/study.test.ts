@@ -22,6 +22,7 @@ import { defaultRule, FALLBACK_RULE } from '../../src/taskpane/views/review';
 import { PaneState } from '../../src/taskpane/state';
 import { demoTable } from '../../src/taskpane/demo';
 import { keyOf } from '../../src/taskpane/analytes';
+import { readTyped } from '../../src/taskpane/study/inputs';
 
 type Cell = string | number | boolean | null;
 
@@ -329,5 +330,20 @@ describe('the rule a review starts from', () => {
     const d = defaultRule(state, state.rows()[0]);
     expect(d.rule).toBe(FALLBACK_RULE);
     expect(d.from).toMatch(/no observed bias and CV/);
+  });
+});
+
+describe('a figure typed in the pane', () => {
+  test('is a number (decimal point or comma), a cell on this or another sheet, blank, or refused with the reason', () => {
+    expect(readTyped(' 1.5 ')).toEqual({ kind: 'number', value: 1.5 });
+    expect(readTyped('1,5')).toEqual({ kind: 'number', value: 1.5 });
+    expect(readTyped('')).toEqual({ kind: 'blank' });
+    expect(readTyped('h2')).toEqual({ kind: 'cell', sheet: null, address: 'H2', ref: '$H$2' });
+    expect(readTyped('$H$2')).toMatchObject({ kind: 'cell', address: 'H2', ref: '$H$2' });
+    expect(readTyped('Claims!B3')).toEqual({ kind: 'cell', sheet: 'Claims', address: 'B3', ref: 'Claims!$B$3' });
+    expect(readTyped("'Lot 7 claims'!B3")).toEqual({ kind: 'cell', sheet: 'Lot 7 claims', address: 'B3', ref: "'Lot 7 claims'!$B$3" });
+    expect(readTyped('1.5%')).toEqual({ kind: 'number', value: 1.5 });
+    expect(readTyped('about 2')).toEqual({ kind: 'bad', why: '"about 2" is neither a number nor a cell such as H2' });
+    expect(readTyped('1.234,5')).toMatchObject({ kind: 'bad' });
   });
 });
