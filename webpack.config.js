@@ -68,8 +68,6 @@ module.exports = (env, argv) => {
       taskpane: './src/taskpane/index.ts',
       commands: './src/commands/commands.ts',
     },
-    // ES modules inside the bundle (tsconfig's commonjs is for jest and the CLI): webpack can then drop
-    // what a surface never imports, which keeps functions.js and taskpane.js within their budgets.
     output: { path: path.join(__dirname, 'dist', 'addin'), filename: '[name].js', clean: true },
     resolve: { extensions: ['.ts', '.js'] },
     target: ['web', 'es2020'],
@@ -78,6 +76,8 @@ module.exports = (env, argv) => {
         {
           test: /\.ts$/,
           exclude: /node_modules/,
+          // ES modules into webpack (tsconfig's commonjs is for jest and tsc): scope hoisting and
+          // tree shaking keep the task pane and functions bundles within their budgets.
           use: {
             loader: 'ts-loader',
             options: { transpileOnly: true, compilerOptions: { noEmit: false, sourceMap: dev, module: 'esnext' }, getCustomTransformers: () => ({ before: [withoutCatalogueDocs] }) },

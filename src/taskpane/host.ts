@@ -93,6 +93,52 @@ export interface FillOutcome {
   readonly cells: number;
 }
 
+/** What one cell of a written block holds. */
+export type BlockContent =
+  | { readonly kind: 'formula'; readonly formula: string }
+  | { readonly kind: 'number'; readonly value: number }
+  | { readonly kind: 'text'; readonly text: string };
+
+/** How a block cell looks: the roles of the fill's blocks, plus a plain figure. */
+export type BlockStyle = 'title' | 'demo' | 'header' | 'label' | 'provenance' | 'caution' | 'figure';
+
+export interface BlockCell {
+  readonly content: BlockContent;
+  /** Excel number format ("0.00"); absent: General. */
+  readonly format?: string;
+  readonly style?: BlockStyle;
+}
+
+/**
+ * One rectangle of a block: `cells[r][c]` goes to (row + r, col + c). A null entry is written
+ * nothing but must be empty too: it is room a formula above it spills into.
+ */
+export interface BlockArea {
+  /** 1-based top-left cell. */
+  readonly row: number;
+  readonly col: number;
+  readonly cells: ReadonlyArray<ReadonlyArray<BlockCell | null>>;
+  /** Least width (characters) of each of the area's columns, by offset from `col`: widened, never narrowed. */
+  readonly widths?: readonly number[];
+}
+
+export interface BlockWrite {
+  readonly sheet: string;
+  readonly areas: readonly BlockArea[];
+  /** The user confirmed replacing what the areas' cells hold. */
+  readonly overwrite: boolean;
+}
+
+export interface BlockOutcome {
+  readonly sheet: string;
+  /** Address of each area written, e.g. "F2:H30". */
+  readonly addresses: readonly string[];
+  /** Cells written (null entries not counted). */
+  readonly cells: number;
+  /** Non-empty cells replaced on the user's confirmation. */
+  readonly overwritten: readonly string[];
+}
+
 export interface PaneHost {
   /** Shown in the pane: "Excel", or why there is no workbook. */
   readonly label: string;
@@ -111,10 +157,28 @@ export interface PaneHost {
   writeFill(plan: FillPlan): Promise<FillOutcome>;
   setTierCell(w: TierCellWrite): Promise<void>;
   writeSummary(req: SummaryRequest): Promise<SummaryResult>;
+  /**
+   * Writes rectangles of formulas and values, with number formats and styles, on one sheet in
+   * one batch. Refuses with an OccupiedError (writing nothing) when a covered cell is not empty,
+   * unless `overwrite` is set.
+   */
+  writeBlock(req: BlockWrite): Promise<BlockOutcome>;
 }
 
 /** Raised when the host cannot do what was asked; the message is for the user. */
 export class HostError extends Error {}
+
+/** A block refused because cells it covers are not empty; nothing was written. */
+export class OccupiedError extends HostError {
+  constructor(readonly addresses: readonly string[]) {
+    super(
+      `${addresses.length === 1 ? '1 cell where the block goes already holds' : `${addresses.length} cells where the block goes already hold`} something ` +
+        `(${addresses.slice(0, 5).join(', ')}${addresses.length > 5 ? ', …' : ''}): nothing was written. ` +
+        'Confirm replacing them, or make room beside the data.',
+    );
+    this.name = 'OccupiedError';
+  }
+}
 
 /** Outside Excel (a plain browser): the library and what-if work, the workbook does not. */
 export function noWorkbookHost(why: string): PaneHost {
@@ -133,5 +197,6 @@ export function noWorkbookHost(why: string): PaneHost {
     writeFill: refuse,
     setTierCell: refuse,
     writeSummary: refuse,
+    writeBlock: refuse,
   };
 }

@@ -163,6 +163,34 @@
       const { row, col } = parseCell(w.cell);
       wb.sheets[w.sheet].set(key(row, col), { value: w.tier, formula: null });
     }),
+    writeBlock: (req) => call('writeBlock', req, () => {
+      // As the Excel writer: nothing is written when a covered cell holds something, unless confirmed.
+      const m = wb.sheets[req.sheet];
+      if (!m) throw new Error('no sheet ' + req.sheet);
+      const taken = [];
+      for (const a of req.areas) a.cells.forEach((r, i) => r.forEach((_c, j) => {
+        if (m.has(key(a.row + i, a.col + j))) taken.push(letters(a.col + j) + (a.row + i));
+      }));
+      if (taken.length && !req.overwrite) {
+        const e = new Error((taken.length === 1 ? '1 cell where the block goes already holds' : taken.length + ' cells where the block goes already hold') + ' something (' + taken.slice(0, 5).join(', ') + '): nothing was written. Confirm replacing them, or make room beside the data.');
+        e.name = 'OccupiedError';
+        e.addresses = taken;
+        throw e;
+      }
+      let cells = 0;
+      const addresses = [];
+      for (const a of req.areas) {
+        addresses.push(letters(a.col) + a.row + ':' + letters(a.col + a.cells[0].length - 1) + (a.row + a.cells.length - 1));
+        a.cells.forEach((r, i) => r.forEach((c, j) => {
+          const k = key(a.row + i, a.col + j);
+          if (!c) { if (req.overwrite) m.delete(k); return; }
+          cells++;
+          const ct = c.content;
+          m.set(k, ct.kind === 'formula' ? { value: null, formula: ct.formula } : { value: ct.kind === 'number' ? ct.value : ct.text, formula: null });
+        }));
+      }
+      return { sheet: req.sheet, addresses, cells, overwritten: taken };
+    }),
     writeSummary: (req) => call('writeSummary', req, () => {
       let name = req.sheetName;
       for (let i = 2; wb.order.some((n) => n.toLowerCase() === name.toLowerCase()); i++) name = `${req.sheetName} (${i})`;

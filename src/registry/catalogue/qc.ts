@@ -107,8 +107,8 @@ function alongside(g: Grid | undefined, values: Grid, name: string): Scalar[] | 
   return cellsOf(g);
 }
 
-/** The control series of QC.FLAGS and QC.REVIEW from their ranges (row by row). */
-function series(gv: Grid, gt: Grid, gs: Grid, rule: ControlRule, gr: Grid | undefined, gl: Grid | undefined): ControlSeries {
+/** The control series of QC.FLAGS and QC.REVIEW from their ranges (row by row); the task pane draws its chart from the same. */
+export function series(gv: Grid, gt: Grid, gs: Grid, rule: ControlRule, gr: Grid | undefined, gl: Grid | undefined): ControlSeries {
   return {
     values: cellsOf(gv).map(entry),
     target: (alongside(gt, gv, 'target') as Scalar[]).map(entry),

@@ -1,5 +1,5 @@
 /**
- * The real PaneHost: the other engineer's SheetIO (sheetio.ts) for the fill's reads and writes
+ * The real PaneHost: the SheetIO (sheetio.ts) for the fill's reads and writes
  * and the table import, the pane's own reads (read.ts), the tier-cell writer and the summary
  * writer. Each method is one Excel.run.
  */
@@ -10,6 +10,7 @@ import { createSheetIO, FillWriteError } from './sheetio';
 import { readActiveCellOf, readActiveContext, readActiveSheetGrid, readRangesOf } from './read';
 import { writeTierCell } from './tierCell';
 import { writeSummarySheet } from './summary';
+import { writeBlockTo } from './block';
 import { uniqueSheetName } from '../../engine/fill';
 
 function userMessage(e: unknown): Error {
@@ -79,5 +80,6 @@ export function excelPaneHost(run: ExcelRun = (batch) => Excel.run(batch), io: S
         const sheetName = uniqueSheetName(req.sheetName, await io.sheetNames());
         return run((c) => writeSummarySheet(c, { ...req, sheetName }));
       }),
+    writeBlock: (req) => guarded(() => run((c) => writeBlockTo(c, req))),
   };
 }

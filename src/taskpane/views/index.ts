@@ -9,6 +9,8 @@ import { fillView } from './fill';
 import { whatIfView } from './whatif';
 import { qcView } from './qc';
 import { summaryView } from './summary';
+import { verificationView } from './verification';
+import { reviewView } from './review';
 
 /** The steps of the job: the navigation's first row. */
 export type StepId = 'specify' | 'verify' | 'control' | 'report';
@@ -46,16 +48,14 @@ export const VIEWS: readonly ViewEntry[] = [
     id: 'verification',
     label: 'Verification',
     step: 'verify',
-    make: null,
-    meanwhile: 'Not in the pane yet. Meanwhile the worksheet functions VERIFY.PRECISION, VERIFY.TRUENESS and DATA.CVLIMITS verify a method in cells.',
+    make: verificationView,
   },
   { id: 'qc', label: 'QC', step: 'control', make: qcView },
   {
     id: 'review',
     label: 'Review',
     step: 'control',
-    make: null,
-    meanwhile: 'Not in the pane yet. Meanwhile the worksheet functions QC.FLAGS and QC.REVIEW review control results in cells.',
+    make: reviewView,
   },
   { id: 'summary', label: 'Summary', step: 'report', make: summaryView },
 ];
