@@ -321,7 +321,7 @@ describe('the rule a review starts from', () => {
     const plan = evaluate('QC.PLAN', [allowable, 0.8, 1.1]);
     const d = defaultRule(state, r);
     expect(d.rule).toBe(plan[1][0]);
-    expect(d.from).toMatch(/^the QC plan of .* at the minimum tier \(set for this analyte\), n = /);
+    expect(d.from).toMatch(/^the QC plan of .* at the minimum tier \(its own tier, chosen in Fill\), n = /);
   });
 
   test('is the common multirule, with the reason, when the analyte has no observed bias and CV', () => {
