@@ -39,7 +39,7 @@ describe('leeway demo', () => {
     built = await build();
   });
 
-  test('the sheets, each marked as demo data with the caution of SPEC.md section 9', () => {
+  test('the sheets, each marked as demo data with the caution', () => {
     expect(built.wb.worksheets.map((w) => w.name)).toEqual(SHEETS);
     for (const ws of built.wb.worksheets) {
       const t = texts(ws);

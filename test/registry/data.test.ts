@@ -62,7 +62,7 @@ describe('DATA.BIAS and DATA.RMSBIAS', () => {
   test('if no pair holds two numbers, returns #NUM!', () => {
     expect(codeOf('DATA.BIAS', col('a', 2), col(1, null))).toBe('#NUM!');
   });
-  // Nordtest TR 537 §6.1 single CRM (second-hand, reference README): 11.9 against 11.5 → 3.48 %.
+  // Nordtest TR 537 §6.1 single CRM (second-hand, quoted from a summary of the handbook): 11.9 against 11.5 → 3.48 %.
   test('one pair is enough (a single reference material)', () => {
     expect(Math.abs((one('DATA.BIAS', 11.9, 11.5) as number) - 3.48)).toBeLessThan(0.005);
   });
@@ -202,7 +202,7 @@ describe('DATA.COMPARE', () => {
 });
 
 describe('MU.BIAS and MU.COMBINE', () => {
-  // Nordtest TR 537 §3.2 ammonium example (second-hand, reference README).
+  // Nordtest TR 537 §3.2 ammonium example (second-hand, quoted from a summary of the handbook).
   const biases = col(2.5, 2.7, 1.9, 1.4, 1.8, 2.9);
   test('Nordtest ammonium: u(bias) 2.73 %, U = 6.40 % (second-hand)', () => {
     const u = one('MU.BIAS', biases, 1.52) as number;

@@ -77,15 +77,15 @@ describe('DATA.CV rules', () => {
 });
 
 describe('DATA.BIAS and DATA.RMSBIAS', () => {
-  // Nordtest TR 537 §6.1 single-CRM example, second-hand (values as given in the project's
-  // reference README, which cites the handbook): certified 11.5, lab mean 11.9 → bias 3.48 %.
+  // Nordtest TR 537 §6.1 single-CRM example, second-hand (values quoted from a summary of the
+  // handbook's worked examples, not checked against the handbook itself): certified 11.5, lab mean 11.9 → bias 3.48 %.
   test('Nordtest TR 537 single CRM: bias of 11.9 against 11.5 is 3.48 % (second-hand)', () => {
     const b = meanPercentBias([11.9], [11.5]);
     expect(Math.abs(b - 3.48)).toBeLessThan(0.005);
     expect(Math.abs(b - (100 * 0.4) / 11.5)).toBeLessThanOrEqual(1e-13);
   });
 
-  // Nordtest TR 537 §3.2 ammonium example, second-hand (reference README): six PT biases +2.5,
+  // Nordtest TR 537 §3.2 ammonium example, second-hand (quoted from a summary of the handbook): six PT biases +2.5,
   // +2.7, +1.9, +1.4, +1.8, +2.9 % give RMS bias 2.26 %. Results are built at target 100.
   test('Nordtest TR 537 ammonium: RMS of six PT biases is 2.26 % (second-hand)', () => {
     const biases = [2.5, 2.7, 1.9, 1.4, 1.8, 2.9];
