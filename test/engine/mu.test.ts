@@ -2,8 +2,8 @@ import { biasUncertainty, combinedUncertainty } from '../../src/engine/mu';
 import { mulberry32, uniform } from '../support/prng';
 
 // Nordtest TR 537, ed. 4 (2017), worked examples — second-hand: the handbook itself was not at
-// hand; the values are those of the project's reference README (a public study note citing its
-// sections 3.2 and 6.1). Tolerances follow the decimals given there.
+// hand; the values are quoted from a public study note that cites the handbook's
+// sections 3.2 and 6.1. Tolerances follow the decimals given there.
 describe('MU.BIAS and MU.COMBINE against the Nordtest TR 537 examples (second-hand)', () => {
   const ammoniumBiases = [2.5, 2.7, 1.9, 1.4, 1.8, 2.9];
 

@@ -128,7 +128,7 @@ describe('DATA.PRECISION', () => {
 describe('DATA.COMPARE', () => {
   const LABELS = ['Slope', 'Slope low 95%', 'Slope high 95%', 'Intercept', 'Intercept low 95%', 'Intercept high 95%', 'Bias at level', 'Bias at level %'];
 
-  // Sen PK, JASA 1968 (reference README): Passing–Bablok slope 4, intercept 6. Its 95 % ranks
+  // Sen PK, JASA 1968 (test/fixtures/method-comparison/README.md): Passing–Bablok slope 4, intercept 6. Its 95 % ranks
   // are the same as the published 93 % ones here (M₁ = 4 either way): 26/7 and 35/8.
   test('Passing–Bablok by default: documented labels in order; the bias cells are "" without a level', () => {
     const out = evaluate('DATA.COMPARE', [SEN_X, SEN_Y]);

@@ -30,7 +30,7 @@ const close = (a: number, b: number, rel: number): void => {
 
 describe('Passing–Bablok against published examples', () => {
   // Sen PK, JASA 1968;63:1379–89, as checked in the R package `deming` (tests/pbtest.R), per
-  // the reference README: monotone data, so Passing–Bablok = Theil–Sen: slope 4, intercept 6,
+  // test/fixtures/method-comparison/README.md: monotone data, so Passing–Bablok = Theil–Sen: slope 4, intercept 6,
   // 93 % slope interval (26/7, 35/8).
   test('Sen (1968): slope 4, intercept 6, 93 % interval 26/7 to 35/8', () => {
     const d = csv('sen1968_theil_sen.csv');
@@ -41,7 +41,7 @@ describe('Passing–Bablok against published examples', () => {
     close(f.slopeHigh as number, 35 / 8, 1e-15);
   });
 
-  // R package `deming`, tests/pbtest.R, per the reference README: x = 1..6,
+  // R package `deming`, tests/pbtest.R, per test/fixtures/method-comparison/README.md: x = 1..6,
   // y = 2, 1.2, 4.1, 3.5, 6.3, 3 → slope 1.05, intercept 0.125 (15 slopes, one below −1, so
   // the median is shifted by K = 1).
   test('six-point example: slope 1.05, intercept 0.125 (shifted median, K = 1)', () => {
@@ -77,7 +77,7 @@ describe('OLS against NIST StRD Norris and Ripley & Thompson (1987)', () => {
   });
 
   // Ripley BD, Thompson M. Analyst 1987;112:377–83, as checked in R `deming` tests/atest.R,
-  // per the reference README (3 decimals): aes on aas 0.544 + 0.845·x; aas on aes −0.299 + 1.089·x.
+  // per test/fixtures/method-comparison/README.md (3 decimals): aes on aas 0.544 + 0.845·x; aas on aes −0.299 + 1.089·x.
   test('Ripley & Thompson arsenate data: OLS both ways to 3 decimals', () => {
     const d = csv('arsenate_ripley_thompson_1987.csv');
     const a = ordinaryLeastSquares(d.aas, d.aes);

@@ -51,8 +51,8 @@ describe('Student t quantile', () => {
     }
   });
 
-  // NIST/SEMATECH e-Handbook §1.3.6.7.2, t table (3 decimals; the ν = ∞ row as given in the
-  // reference README, the finite rows from memory): 0.975 quantiles 12.706 (ν 1), 4.303 (ν 2),
+  // NIST/SEMATECH e-Handbook §1.3.6.7.2, t table (3 decimals; the ν = ∞ row is the normal
+  // quantile, the finite rows from memory): 0.975 quantiles 12.706 (ν 1), 4.303 (ν 2),
   // 2.228 (ν 10), 2.042 (ν 30), 1.960 (ν ∞).
   test('published 3-decimal table values', () => {
     expect(Math.abs(tQuantile(0.975, 1) - 12.706)).toBeLessThan(0.0005);
