@@ -25,6 +25,8 @@ const IMAGES = [
   'pane-explain.png',
   'pane-qc.png',
   'pane-qc-risk.png',
+  'pane-verification.png',
+  'pane-review.png',
   'pane-summary.png',
   'pane-caution.png',
 ];

@@ -6,24 +6,13 @@
  * flags" sends one live QC.FLAGS formula beside the data and the QC.REVIEW figures below, and
  * refuses cells that hold something until confirmed. Screenshots go to out/screenshots/.
  */
-import * as fs from 'fs';
-import * as path from 'path';
 import type { Page } from 'playwright-core';
-import { describeInBrowser, usePane, ROOT } from './harness';
-import { view, lastCall, setCells, setActive, statusText } from './helpers';
+import { describeInBrowser, usePane } from './harness';
+import { view, lastCall, setCells, setActive, statusText, screenshot } from './helpers';
 import { evaluate } from '../../src/registry';
 import type { BlockWrite } from '../../src/taskpane/host';
 import { FALLBACK_RULE } from '../../src/taskpane/views/review';
 
-const SHOTS = path.join(ROOT, 'out', 'screenshots');
-
-async function shot(page: Page, name: string): Promise<void> {
-  fs.mkdirSync(SHOTS, { recursive: true });
-  const height = await page.evaluate(() => Math.ceil(document.documentElement.scrollHeight));
-  await page.setViewportSize({ width: 320, height: Math.max(480, Math.min(height, 4000)) });
-  await page.screenshot({ path: path.join(SHOTS, name) });
-  await page.setViewportSize({ width: 320, height: 720 });
-}
 
 // Invented control results: two materials over 12 runs, a shift of about +2.5 SD in runs 8–10.
 const L1 = [100.4, 99.1, 101.2, 98.7, 100.9, 99.6, 100.2, 105.1, 104.8, 105.6, 100.3, 99.4];
@@ -72,7 +61,7 @@ describeInBrowser('task pane: review of control results', () => {
     expect(await page.getAttribute('#review-chart path.point.current', 'data-flags')).toBe(flags[flaggedRows[0] - 2]);
     const box = await page.locator('#review-chart svg').boundingBox();
     expect(box!.width).toBeLessThanOrEqual(320);
-    await shot(page, 'review.png');
+    await screenshot(page, 'pane-review.png');
     expect(errors).toEqual([]);
     await context.close();
   });
@@ -122,7 +111,7 @@ describeInBrowser('task pane: review of control results', () => {
     await page.dispatchEvent('#review-rule', 'change');
     await page.waitForSelector('#review-error');
     expect(await page.textContent('#review-error')).toMatch(/^#VALUE! /);
-    await shot(page, 'review-bad-rule.png');
+    await screenshot(page, 'review-bad-rule.png');
     expect(errors).toEqual([]);
     await context.close();
   });

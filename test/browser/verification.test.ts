@@ -6,24 +6,13 @@
  * until the user confirms; a comparison shows DATA.AGREEMENT's figures and the difference plot;
  * bad selections say what to select. Screenshots go to out/screenshots/.
  */
-import * as fs from 'fs';
-import * as path from 'path';
 import type { Page } from 'playwright-core';
-import { describeInBrowser, usePane, ROOT } from './harness';
-import { view, lastCall, setCells, setActive, statusText } from './helpers';
+import { describeInBrowser, usePane } from './harness';
+import { view, lastCall, setCells, setActive, statusText, screenshot } from './helpers';
 import { evaluate } from '../../src/registry';
 import type { BlockWrite } from '../../src/taskpane/host';
 import { fmt } from '../../src/taskpane/format';
 
-const SHOTS = path.join(ROOT, 'out', 'screenshots');
-
-async function shot(page: Page, name: string): Promise<void> {
-  fs.mkdirSync(SHOTS, { recursive: true });
-  const height = await page.evaluate(() => Math.ceil(document.documentElement.scrollHeight));
-  await page.setViewportSize({ width: 320, height: Math.max(480, Math.min(height, 4000)) });
-  await page.screenshot({ path: path.join(SHOTS, name) });
-  await page.setViewportSize({ width: 320, height: 720 });
-}
 
 // The VERIFY.PRECISION catalogue example beside an invented second material.
 const L1 = [10.1, 10.3, 9.9, 10.6, 10.4, 10.8, 9.7, 9.9, 10.0, 10.2, 10.1, 10.4, 9.8, 10.0, 10.1];
@@ -73,7 +62,7 @@ describeInBrowser('task pane: verification', () => {
     expect(await page.textContent('#verify-spec')).toMatch(/desirable tier \(the sheet tier chosen in Fill\)/);
     expect(await page.isVisible(`${m1} [data-key="sigma"]`)).toBe(true);
     expect(await page.locator(`${m2} [data-key="sigma"]`).count()).toBe(0);
-    await shot(page, 'verification-replication.png');
+    await screenshot(page, 'pane-verification.png');
     // A material with trueness and a within-lab CV can hand them to What-if, QC and Summary.
     expect(await page.locator('#verify-use-1').count()).toBe(0);
     await page.click('#verify-use-0');
@@ -95,7 +84,7 @@ describeInBrowser('task pane: verification', () => {
     await page.click('#verify-write');
     await page.waitForSelector('#verify-replace');
     expect(await statusText(page)).toMatch(/^Nothing written: .*F20/);
-    await shot(page, 'verification-confirm.png');
+    await screenshot(page, 'verification-confirm.png');
     await page.click('#verify-replace');
     await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Wrote'));
     const req = await lastCall<BlockWrite>(page, 'writeBlock');
@@ -130,7 +119,7 @@ describeInBrowser('task pane: verification', () => {
     expect(await page.textContent('#agreement-plot svg desc')).toMatch(/^8 pairs/);
     const box = await page.locator('#agreement-plot svg').boundingBox();
     expect(box!.width).toBeLessThanOrEqual(320);
-    await shot(page, 'verification-comparison.png');
+    await screenshot(page, 'verification-comparison.png');
     await page.click('#verify-write');
     await page.waitForFunction(() => (document.querySelector('#status')?.textContent ?? '').startsWith('Wrote'));
     const req = await lastCall<BlockWrite>(page, 'writeBlock');
