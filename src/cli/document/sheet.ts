@@ -76,6 +76,12 @@ const FORMULA_LIKE = /^[=+\-@]/;
 /** Units an indent of 1 takes (the gap that keeps wrapped text off the number before it). */
 const INDENT_UNITS = 1.5;
 
+/**
+ * Text set in by one character. One object shared by every such cell (never changed in place:
+ * a cell whose alignment changes gets a new object), so a writer meets it once.
+ */
+export const SET_IN: Readonly<Partial<ExcelJS.Alignment>> = { horizontal: 'left', indent: 1 };
+
 const RED = 'FFC00000';
 const GREY = 'FF595959';
 
@@ -199,7 +205,7 @@ export class DocumentSheet {
     const cell = this.ws.getCell(row, col);
     cell.value = value as ExcelJS.CellValue;
     // Text set in by one character: it never touches a right-aligned number in the column before.
-    if (typeof value === 'string' && (col > 1 || FORMULA_LIKE.test(value))) cell.alignment = { horizontal: 'left', indent: 1 };
+    if (typeof value === 'string' && (col > 1 || FORMULA_LIKE.test(value))) cell.alignment = SET_IN;
     if (opts.format && typeof value === 'number') cell.numFmt = opts.format;
     if (opts.bold) cell.font = { ...(cell.font ?? {}), bold: true };
   }

@@ -39,6 +39,7 @@ import type { AnalyteReview, ReviewRequest } from './model';
 import type { Provenance, ReviewContext, ReviewSheetWriter } from './context';
 import { writeSummarySheet, SUMMARY_SHEET } from './summarySheet';
 import { writeResultsSheet, RESULTS_SHEET } from './resultsSheet';
+import type { Block } from './resultsSheet';
 import { startChart, writeMaterialSheet } from './materialSheet';
 import type { PendingChart } from './materialSheet';
 import { sheetNames } from './names';
@@ -97,16 +98,19 @@ export async function buildReviewPackage(b: ReviewBuild): Promise<{ bytes: Buffe
     title: b.provenance.demo ? `Leeway control review — ${DEMO_MARKER}` : 'Leeway control review',
   });
   const sheet = (): ReviewContext => ({ wb: newWorkbook(), provenance: b.provenance, paper: b.paper });
+  const sheetWith = (write: (ctx: ReviewContext) => unknown): ReviewContext => {
+    const ctx = sheet();
+    write(ctx);
+    return ctx;
+  };
   const request: ReviewRequest = { file: b.file, table: b.table, tier: b.tier, rule: b.rule, labRunSize: b.labRunSize };
   const analytes = reviewAll(request);
   const names = sheetNames(analytes.map((a) => a.materials.map((m) => `${a.analyte} ${m.level.level}`)), [SUMMARY_SHEET, RESULTS_SHEET]);
   const charts = analytes.flatMap((a, ai) => a.materials.map((m, mi) => ({ a, ai, m, mi })));
-  const summary = sheet();
-  writeSummarySheet(summary, analytes, b.labRunSize);
-  place(pkg, summary, 1);
-  const results = sheet();
-  const blocks = writeResultsSheet(results, analytes);
-  place(pkg, results, charts.length + 2);
+  // Each sheet's workbook is a short-lived value, left to the collector once written.
+  place(pkg, sheetWith((ctx) => writeSummarySheet(ctx, analytes, b.labRunSize)), 1);
+  let blocks: Block[] = [];
+  place(pkg, sheetWith((ctx) => (blocks = writeResultsSheet(ctx, analytes))), charts.length + 2);
   // Charts render on worker threads, a few sheets ahead of the sheet that places each.
   const pending: PendingChart[] = [];
   const start = (k: number): void => {

@@ -7,6 +7,7 @@
  */
 import type ExcelJS from 'exceljs';
 import type { DocumentSheet } from '../document';
+import { SET_IN } from '../document';
 import { storedFormula } from '../xlsx';
 import { chartSeries } from '../../charts/controlChart';
 import type { ChartPoint } from '../../charts/controlChart';
@@ -53,7 +54,7 @@ function live(ws: ExcelJS.Worksheet, row: number, col: number, typed: string, va
   const cell = ws.getCell(row, col);
   cell.value = { formula: storedFormula(typed), result: cached(value) };
   if (format && typeof value === 'number') cell.numFmt = format;
-  if (typeof value === 'string') cell.alignment = { horizontal: 'left', indent: 1 };
+  if (typeof value === 'string') cell.alignment = SET_IN;
 }
 
 /** A cell of a shared formula: the master's formula moved to this row, with its cached value. */
@@ -61,7 +62,7 @@ function shared(ws: ExcelJS.Worksheet, row: number, col: number, master: string,
   const cell = ws.getCell(row, col);
   cell.value = { sharedFormula: master, result: cached(value) };
   if (format && typeof value === 'number') cell.numFmt = format;
-  if (typeof value === 'string') cell.alignment = { horizontal: 'left', indent: 1 };
+  if (typeof value === 'string') cell.alignment = SET_IN;
 }
 
 /** A rule as a formula's text argument. */

@@ -95,34 +95,38 @@ class StyleTable {
   private readonly borders = new Map<string, number>([['<border><left/><right/><top/><bottom/><diagonal/></border>', 0]]);
   private readonly formats = new Map<string, number>();
   private readonly xfs = new Map<string, number>([['<xf numFmtId="0" fontId="0" fillId="0" borderId="0" xfId="0"/>', 0]]);
-  /** Parts already turned into XML, by object: exceljs cells often share one font, alignment or border object. */
-  private readonly seen = new WeakMap<object, string>();
-  private readonly byStyle = new WeakMap<object, number>();
+  /** Parts already numbered, by object: exceljs cells often share one font, alignment or border object. */
+  private readonly seen = new WeakMap<object, number>();
+  private readonly alignments = new Map<string, number>([['', 0]]);
+  private readonly byParts = new Map<string, number>();
 
   /** The cell format number of an exceljs style (0 for none). */
   idOf(style: Partial<ExcelJS.Style> | undefined): number {
-    if (!style) return 0;
-    const known = this.byStyle.get(style);
-    if (known !== undefined) return known;
+    if (!style || !(style.numFmt || style.font || style.fill || style.border || style.alignment)) return 0;
     const numFmt = style.numFmt ? this.formatId(style.numFmt) : 0;
-    const font = style.font ? this.index(this.fonts, this.part(style.font, fontXml)) : 0;
-    const fill = style.fill ? this.index(this.fills, this.part(style.fill, fillXml)) : 0;
-    const border = style.border ? this.index(this.borders, this.part(style.border, borderXml)) : 0;
-    const alignment = style.alignment ? this.part(style.alignment, alignmentXml) : '';
-    const applies = `${numFmt ? ' applyNumberFormat="1"' : ''}${font ? ' applyFont="1"' : ''}${fill ? ' applyFill="1"' : ''}${border ? ' applyBorder="1"' : ''}${alignment ? ' applyAlignment="1"' : ''}`;
-    const xf = `<xf numFmtId="${numFmt}" fontId="${font}" fillId="${fill}" borderId="${border}" xfId="0"${applies}${alignment ? `>${alignment}</xf>` : '/>'}`;
-    const id = this.index(this.xfs, xf);
-    this.byStyle.set(style, id);
+    const font = style.font ? this.part(style.font, this.fonts, fontXml) : 0;
+    const fill = style.fill ? this.part(style.fill, this.fills, fillXml) : 0;
+    const border = style.border ? this.part(style.border, this.borders, borderXml) : 0;
+    const alignment = style.alignment ? this.part(style.alignment, this.alignments, alignmentXml) : 0;
+    const key = `${numFmt} ${font} ${fill} ${border} ${alignment}`;
+    let id = this.byParts.get(key);
+    if (id === undefined) {
+      const align = [...this.alignments.keys()][alignment];
+      const applies = `${numFmt ? ' applyNumberFormat="1"' : ''}${font ? ' applyFont="1"' : ''}${fill ? ' applyFill="1"' : ''}${border ? ' applyBorder="1"' : ''}${align ? ' applyAlignment="1"' : ''}`;
+      id = this.index(this.xfs, `<xf numFmtId="${numFmt}" fontId="${font}" fillId="${fill}" borderId="${border}" xfId="0"${applies}${align ? `>${align}</xf>` : '/>'}`);
+      this.byParts.set(key, id);
+    }
     return id;
   }
 
-  private part<T extends object>(o: T, toXml: (o: T) => string): string {
-    let xml = this.seen.get(o);
-    if (xml === undefined) {
-      xml = toXml(o);
-      this.seen.set(o, xml);
+  /** The number of a font, fill, border or alignment in its list. */
+  private part<T extends object>(o: T, map: Map<string, number>, toXml: (o: T) => string): number {
+    let i = this.seen.get(o);
+    if (i === undefined) {
+      i = this.index(map, toXml(o));
+      this.seen.set(o, i);
     }
-    return xml;
+    return i;
   }
 
   private index(map: Map<string, number>, xml: string): number {
@@ -315,7 +319,11 @@ export class WorkbookPackage {
     const dependents: Array<{ master: string; row: number; col: number }> = [];
     ws.eachRow({ includeEmpty: true }, (row, r) => {
       const cells: string[] = [];
-      row.eachCell({ includeEmpty: true }, (cell, c) => {
+      // Cells as they are (eachCell with includeEmpty would create every missing one).
+      const found = row as unknown as { findCell(c: number): ExcelJS.Cell | undefined };
+      for (let c = 1; c <= row.cellCount; c++) {
+        const cell = found.findCell(c);
+        if (!cell) continue;
         const type = cell.type as number;
         const s = this.styles.idOf(cell.style);
         const ref = `${this.letter(c)}${r}`;
@@ -323,7 +331,7 @@ export class WorkbookPackage {
         const sAttr = s ? ` s="${s}"` : '';
         if (type === TYPE.null || type === TYPE.merge) {
           if (s) cells.push(`<c r="${ref}"${sAttr}/>`);
-          return;
+          continue;
         }
         const v = cell.value;
         if (typeof v === 'number') cells.push(`<c r="${ref}"${sAttr}><v>${num(v)}</v></c>`);
@@ -342,7 +350,7 @@ export class WorkbookPackage {
             cells.push(`<c r="${ref}"${sAttr}${t}>\u0001${ref}\u0001${result}</c>`);
           }
         } else throw new Error(`sheet "${ws.name}" cell ${ref}: the review writer does not write this kind of value (${JSON.stringify(v)?.slice(0, 60)})`);
-      });
+      }
       const height = row.height !== undefined ? ` ht="${row.height}" customHeight="1"` : '';
       if (cells.length || height) parts.push(cells.length ? `<row r="${r}"${height}>${cells.join('')}</row>` : `<row r="${r}"${height}/>`);
     });
