@@ -16,11 +16,13 @@
  * column widths, row heights, merged cells, page set-up and margins, page header and footer,
  * manual page breaks, the sheet view, and pictures anchored at a cell. A sheet holding anything
  * else (a hyperlink, rich text, a date value, conditional formats, data validation, a comment, a
- * filter, a table) is refused with an error rather than written without it. Text cells keep every character: the
+ * filter, a table) is refused with an error rather than written without it. A sheet's table body
+ * (rows the document-sheet layer keeps as plain values: DocumentSheet.bodyLine) is written with it. Text cells keep every character: the
  * characters XML cannot hold are written as _xHHHH_ (ECMA-376 Part 1, ST_Xstring).
  */
 import type ExcelJS from 'exceljs';
 import { columnLetters } from '../../engine/fill';
+import { tableBodyOf } from '../document';
 import { ZipBuilder } from './zip';
 
 const NS_MAIN = 'http://schemas.openxmlformats.org/spreadsheetml/2006/main';
@@ -315,45 +317,71 @@ export class WorkbookPackage {
   private writeRows(ws: ExcelJS.Worksheet, parts: string[]): void {
     // Shared formulas: the master cell states the range its dependents cover, known only once
     // they are all seen; its <f> is a placeholder filled in at the end.
-    const masters = new Map<string, { part: number; formula: string; si: number; lastRow: number; lastCol: number; row: number; col: number }>();
+    const masters = new Map<string, { formula: string; si: number; lastRow: number; lastCol: number }>();
     const dependents: Array<{ master: string; row: number; col: number }> = [];
-    ws.eachRow({ includeEmpty: true }, (row, r) => {
-      const cells: string[] = [];
-      // Cells as they are (eachCell with includeEmpty would create every missing one).
-      const found = row as unknown as { findCell(c: number): ExcelJS.Cell | undefined };
-      for (let c = 1; c <= row.cellCount; c++) {
-        const cell = found.findCell(c);
-        if (!cell) continue;
-        const type = cell.type as number;
-        const s = this.styles.idOf(cell.style);
-        const ref = `${this.letter(c)}${r}`;
-        if (cell.note) throw new Error(`sheet "${ws.name}" cell ${ref}: the review writer does not write comments`);
-        const sAttr = s ? ` s="${s}"` : '';
-        if (type === TYPE.null || type === TYPE.merge) {
-          if (s) cells.push(`<c r="${ref}"${sAttr}/>`);
-          continue;
-        }
-        const v = cell.value;
-        if (typeof v === 'number') cells.push(`<c r="${ref}"${sAttr}><v>${num(v)}</v></c>`);
-        else if (typeof v === 'string') cells.push(`<c r="${ref}"${sAttr} t="s"><v>${this.stringIndex(v)}</v></c>`);
-        else if (typeof v === 'boolean') cells.push(`<c r="${ref}"${sAttr} t="b"><v>${v ? 1 : 0}</v></c>`);
-        else if (type === TYPE.error) cells.push(`<c r="${ref}"${sAttr} t="e"><v>${esc(String((v as ExcelJS.CellErrorValue).error))}</v></c>`);
-        else if (type === TYPE.formula) {
-          const f = v as ExcelJS.CellFormulaValue & { sharedFormula?: string };
-          // The cell's own result: exceljs leaves a cached 0 (or "") out of the value it reports.
-          const [t, result] = formulaResult(cell.result);
-          if (f.sharedFormula !== undefined) {
-            dependents.push({ master: f.sharedFormula, row: r, col: c });
-            cells.push(`<c r="${ref}"${sAttr}${t}>\u0000${f.sharedFormula}\u0000${result}</c>`);
-          } else {
-            masters.set(ref, { part: -1, formula: f.formula, si: -1, lastRow: r, lastCol: c, row: r, col: c });
-            cells.push(`<c r="${ref}"${sAttr}${t}>\u0001${ref}\u0001${result}</c>`);
-          }
-        } else throw new Error(`sheet "${ws.name}" cell ${ref}: the review writer does not write this kind of value (${JSON.stringify(v)?.slice(0, 60)})`);
+    /** One cell with a value; a formula is given with its cached result. */
+    const valueCell = (ref: string, r: number, c: number, s: number, v: unknown, result: unknown): string => {
+      const sAttr = s ? ` s="${s}"` : '';
+      if (typeof v === 'number') return `<c r="${ref}"${sAttr}><v>${num(v)}</v></c>`;
+      if (typeof v === 'string') return `<c r="${ref}"${sAttr} t="s"><v>${this.stringIndex(v)}</v></c>`;
+      if (typeof v === 'boolean') return `<c r="${ref}"${sAttr} t="b"><v>${v ? 1 : 0}</v></c>`;
+      const o = (v ?? {}) as { error?: unknown; formula?: string; sharedFormula?: string };
+      if (o.sharedFormula !== undefined) {
+        const [t, cachedResult] = formulaResult(result as ExcelJS.CellFormulaValue['result']);
+        dependents.push({ master: o.sharedFormula, row: r, col: c });
+        return `<c r="${ref}"${sAttr}${t}>\u0000${o.sharedFormula}\u0000${cachedResult}</c>`;
       }
-      const height = row.height !== undefined ? ` ht="${row.height}" customHeight="1"` : '';
-      if (cells.length || height) parts.push(cells.length ? `<row r="${r}"${height}>${cells.join('')}</row>` : `<row r="${r}"${height}/>`);
-    });
+      if (o.formula !== undefined) {
+        const [t, cachedResult] = formulaResult(result as ExcelJS.CellFormulaValue['result']);
+        masters.set(ref, { formula: o.formula, si: -1, lastRow: r, lastCol: c });
+        return `<c r="${ref}"${sAttr}${t}>\u0001${ref}\u0001${cachedResult}</c>`;
+      }
+      if (o.error !== undefined) return `<c r="${ref}"${sAttr} t="e"><v>${esc(String(o.error))}</v></c>`;
+      throw new Error(`sheet "${ws.name}" cell ${ref}: the review writer does not write this kind of value (${JSON.stringify(v)?.slice(0, 60)})`);
+    };
+    const body = tableBodyOf(ws);
+    const lastBodyRow = body ? Math.max(0, ...body.rows.keys()) : 0;
+    const sheetRows = ws as unknown as { findRow(r: number): ExcelJS.Row | undefined };
+    const last = Math.max(ws.rowCount, lastBodyRow);
+    for (let r = 1; r <= last; r++) {
+      const cells: string[] = [];
+      let height: number | undefined;
+      const bodyRow = body?.rows.get(r);
+      if (body && bodyRow) {
+        height = bodyRow.height;
+        bodyRow.values.forEach((v, i) => {
+          if (v === null || v === undefined) return;
+          const c = i + 1;
+          const s = this.styles.idOf(body.style(bodyRow, c) as Partial<ExcelJS.Style> | undefined);
+          const result = typeof v === 'object' && ('formula' in v || 'sharedFormula' in v) ? v.result : undefined;
+          cells.push(valueCell(`${this.letter(c)}${r}`, r, c, s, v, result));
+        });
+      }
+      const row = sheetRows.findRow(r);
+      if (row) {
+        if (bodyRow && row.cellCount) throw new Error(`sheet "${ws.name}" row ${r}: a table-body row holds cells of its own`);
+        height = row.height ?? height;
+        // Cells as they are (eachCell with includeEmpty would create every missing one).
+        const found = row as unknown as { findCell(c: number): ExcelJS.Cell | undefined };
+        for (let c = 1; c <= row.cellCount; c++) {
+          const cell = found.findCell(c);
+          if (!cell) continue;
+          const type = cell.type as number;
+          const s = this.styles.idOf(cell.style);
+          const ref = `${this.letter(c)}${r}`;
+          if (cell.note) throw new Error(`sheet "${ws.name}" cell ${ref}: the review writer does not write comments`);
+          if (type === TYPE.null || type === TYPE.merge) {
+            if (s) cells.push(`<c r="${ref}" s="${s}"/>`);
+            continue;
+          }
+          if (type === TYPE.hyperlink || type === TYPE.richText || type === TYPE.date) throw new Error(`sheet "${ws.name}" cell ${ref}: the review writer does not write hyperlinks, rich text or dates`);
+          // A formula's own result: exceljs leaves a cached 0 (or "") out of the value it reports.
+          cells.push(valueCell(ref, r, c, s, cell.value, type === TYPE.formula ? cell.result : undefined));
+        }
+      }
+      const ht = height !== undefined ? ` ht="${height}" customHeight="1"` : '';
+      if (cells.length || ht) parts.push(cells.length ? `<row r="${r}"${ht}>${cells.join('')}</row>` : `<row r="${r}"${ht}/>`);
+    }
     let si = 0;
     for (const d of dependents) {
       const m = masters.get(d.master);
