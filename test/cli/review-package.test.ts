@@ -8,11 +8,14 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import ExcelJS from 'exceljs';
+import * as zlib from 'zlib';
 import JSZip from 'jszip';
 import { tempDir } from './support';
 import { newWorkbook } from '../../src/cli/files';
 import { DocumentSheet } from '../../src/cli/document';
 import { WorkbookPackage } from '../../src/cli/review/package';
+import { tableCrc32 } from '../../src/cli/review/zip';
+import { mulberry32 } from '../support/prng';
 import { svgToPng } from '../../src/cli/picture';
 
 const DATE = '2026-02-03';
@@ -118,6 +121,16 @@ describe('the review package writer', () => {
     expect(strings).toContain('code _x005F_x0041_ kept');
     expect(strings).toContain('<t xml:space="preserve"> leading space</t>');
     expect(wb.getWorksheet('T')!.getCell(2, 3).value).toBe(' leading space');
+  });
+
+  test('the zip checksum where Node has none of its own: CRC-32 of "123456789" is CBF43926, and it agrees with zlib on seeded bytes', () => {
+    // The check value of CRC-32/ISO-HDLC, as the CRC RevEng catalogue lists it; from memory.
+    expect(tableCrc32(Buffer.from('123456789'))).toBe(0xcbf43926);
+    const rand = mulberry32(20261205);
+    const bytes = Uint8Array.from({ length: 4096 }, () => Math.floor(rand() * 256));
+    const native = (zlib as unknown as { crc32?: (d: Uint8Array) => number }).crc32;
+    if (native) expect(tableCrc32(bytes)).toBe(native(bytes));
+    expect(tableCrc32(new Uint8Array(0))).toBe(0);
   });
 
   test('what it does not write is refused: a hyperlink, a date, a comment; a gap in the tabs', async () => {

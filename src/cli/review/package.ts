@@ -171,7 +171,8 @@ function colorXml(c: Partial<ExcelJS.Color> | undefined): string {
 
 function fontXml(f: Partial<ExcelJS.Font>): string {
   const underline = f.underline === true ? '<u/>' : typeof f.underline === 'string' ? `<u val="${esc(f.underline)}"/>` : '';
-  return `<font>${f.bold ? '<b/>' : ''}${f.italic ? '<i/>' : ''}${underline}${f.strike ? '<strike/>' : ''}<sz val="${f.size ?? 11}"/>${colorXml(f.color)}<name val="${esc(f.name ?? 'Calibri')}"/><family val="${f.family ?? 2}"/></font>`;
+  // In the order the schema lists a font's parts (ECMA-376 Part 1, CT_Font), as spreadsheet programs write them.
+  return `<font>${f.bold ? '<b/>' : ''}${f.italic ? '<i/>' : ''}${f.strike ? '<strike/>' : ''}${underline}<sz val="${f.size ?? 11}"/>${colorXml(f.color)}<name val="${esc(f.name ?? 'Calibri')}"/><family val="${f.family ?? 2}"/></font>`;
 }
 
 function fillXml(f: ExcelJS.Fill): string {
@@ -340,7 +341,8 @@ export class WorkbookPackage {
       throw new Error(`sheet "${ws.name}" cell ${ref}: the review writer does not write this kind of value (${JSON.stringify(v)?.slice(0, 60)})`);
     };
     const body = tableBodyOf(ws);
-    const lastBodyRow = body ? Math.max(0, ...body.rows.keys()) : 0;
+    let lastBodyRow = 0;
+    for (const r of body?.rows.keys() ?? []) lastBodyRow = Math.max(lastBodyRow, r);
     const sheetRows = ws as unknown as { findRow(r: number): ExcelJS.Row | undefined };
     const last = Math.max(ws.rowCount, lastBodyRow);
     for (let r = 1; r <= last; r++) {

@@ -22,10 +22,14 @@ const ZIP32_LIMIT = 0xffffffff;
 
 let crcTable: Int32Array | undefined;
 
-/** CRC-32 (ISO 3309, the zip checksum): Node's own when it has one, else a table-driven loop. */
+/** CRC-32 (ISO 3309, the zip checksum): Node's own when it has one (Node 20.15 on), else tableCrc32. */
 function crc32(data: Uint8Array): number {
   const native = (zlib as unknown as { crc32?: (d: Uint8Array) => number }).crc32;
-  if (native) return native(data);
+  return native ? native(data) : tableCrc32(data);
+}
+
+/** CRC-32 by a table-driven loop (reflected polynomial 0xEDB88320). */
+export function tableCrc32(data: Uint8Array): number {
   if (!crcTable) {
     crcTable = new Int32Array(256);
     for (let n = 0; n < 256; n++) {
@@ -62,9 +66,11 @@ export class ZipBuilder {
     );
   }
 
-  /** The whole archive, parts in the order they were added. */
+  /** The whole archive, parts in the order they were added but [Content_Types].xml first, where readers of packages look for it. */
   async finish(): Promise<Buffer> {
-    const entries = await Promise.all(this.entries);
+    const all = await Promise.all(this.entries);
+    const first = (e: Entry): boolean => e.name.toString('utf8') === '[Content_Types].xml';
+    const entries = [...all.filter(first), ...all.filter((e) => !first(e))];
     const chunks: Buffer[] = [];
     const central: Buffer[] = [];
     let offset = 0;
