@@ -17,8 +17,9 @@
  * manual page breaks, the sheet view, and pictures anchored at a cell. A sheet holding anything
  * else (a hyperlink, rich text, a date value, conditional formats, data validation, a comment, a
  * filter, a table) is refused with an error rather than written without it. A sheet's table body
- * (rows the document-sheet layer keeps as plain values: DocumentSheet.bodyLine) is written with it. Text cells keep every character: the
- * characters XML cannot hold are written as _xHHHH_ (ECMA-376 Part 1, ST_Xstring).
+ * (rows the document-sheet layer keeps as plain values: DocumentSheet.bodyLine) is written with
+ * it. Text cells keep every character: the characters XML cannot hold are written as _xHHHH_
+ * (ECMA-376 Part 1, ST_Xstring).
  */
 import type ExcelJS from 'exceljs';
 import { columnLetters } from '../../engine/fill';
@@ -50,8 +51,9 @@ const BUILT_IN_FORMATS: Readonly<Record<string, number>> = { General: 0, '0': 1,
  * The calculation engine and application the package names, as exceljs (and so every other
  * workbook Leeway writes) names them. A reader takes both as a sign that the cached results are
  * current: Excel recalculates a workbook from an older engine on opening, and LibreOffice
- * recalculates files from other programs; either would replace the cached results of the add-in's
- * formulas with errors where the add-in is not installed.
+ * recalculates files another application wrote (checked: with the application named "Leeway" it
+ * recalculates, and the flags print as errors); either would replace the cached results of the
+ * add-in's formulas with errors where the add-in is not installed.
  */
 const CALC_ID = 171027;
 const APPLICATION = 'Microsoft Excel';

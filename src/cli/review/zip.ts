@@ -59,11 +59,12 @@ export class ZipBuilder {
     const raw = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
     const crc = crc32(raw);
     const nameBytes = Buffer.from(name, 'utf8');
-    this.entries.push(
-      compress
-        ? deflateRaw(raw).then((data) => ({ name: nameBytes, method: DEFLATED, crc, size: raw.length, data }))
-        : Promise.resolve({ name: nameBytes, method: STORED, crc, size: raw.length, data: raw }),
-    );
+    const entry = compress
+      ? deflateRaw(raw).then((data) => ({ name: nameBytes, method: DEFLATED, crc, size: raw.length, data }))
+      : Promise.resolve({ name: nameBytes, method: STORED, crc, size: raw.length, data: raw });
+    // A failure is reported by finish(); until then it is not an unhandled rejection.
+    entry.catch(() => undefined);
+    this.entries.push(entry);
   }
 
   /** The whole archive, parts in the order they were added but [Content_Types].xml first, where readers of packages look for it. */
