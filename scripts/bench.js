@@ -476,8 +476,8 @@ const cvg = new Float64Array(N);
 // results, seeded; 200 material sheets with their charts), each run in a fresh process: its wall
 // time inside the process (median of three, with the spread) and its peak resident memory (the
 // highest of the three). (QC.FLAGS on 10,000 results is timed above.)
-// Measured on the 2-core build machine under load from other jobs: 9–13 s and 1.07–1.15 GB when
-// the workbook was built whole in exceljs's model and written by exceljs; 3.8–4.4 s and
+// Measured on the 2-core build machine under load from other jobs: 8.6–13 s and 1.07–1.19 GB when
+// the workbook was built whole in exceljs's model and written by exceljs; 3.3–4.4 s and
 // 345–365 MB since each sheet is built on its own, its table rows kept as plain rows by the
 // document-sheet layer, and written at once by the review's package writer (src/cli/review/package.ts).
 {
