@@ -473,8 +473,13 @@ const cvg = new Float64Array(N);
 }
 
 // --- The review workbook: `leeway review` of 100 analytes × 2 materials × 250 runs (50,000
-// results, seeded; 200 material sheets with their charts) in a fresh process: its wall time
-// inside the process and its peak resident memory. (QC.FLAGS on 10,000 results is timed above.)
+// results, seeded; 200 material sheets with their charts), each run in a fresh process: its wall
+// time inside the process (median of three, with the spread) and its peak resident memory (the
+// highest of the three). (QC.FLAGS on 10,000 results is timed above.)
+// Measured on the 2-core build machine under load from other jobs: 8.6–13 s and 1.07–1.19 GB when
+// the workbook was built whole in exceljs's model and written by exceljs; 3.3–4.4 s and
+// 345–365 MB since each sheet is built on its own, its table rows kept as plain rows by the
+// document-sheet layer, and written at once by the review's package writer (src/cli/review/package.ts).
 {
   const { execFileSync } = require('child_process');
   const cli = path.join(root, 'dist', 'cli', 'leeway.js');
@@ -500,9 +505,10 @@ const cvg = new Float64Array(N);
       main(${JSON.stringify(args)}, { out: () => {}, err: () => {} }).then((rc) => {
         process.stdout.write(JSON.stringify({ rc, ms: performance.now() - t0, rss: process.resourceUsage().maxRSS }));
       });`;
-    const r = JSON.parse(execFileSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: root, maxBuffer: 1 << 26 }));
-    const rss = r.rss / 1024;
-    record('review_50k_ms', 'leeway review, 100 analytes × 2 materials × 250 runs (50,000 results)', r.ms, `one run, peak memory ${rss.toFixed(0)} MiB (target ≤ 500), exit ${r.rc}`, '≤ 10000', ' ms');
+    const runs = Array.from({ length: 3 }, () => JSON.parse(execFileSync(process.execPath, ['-e', code], { encoding: 'utf8', cwd: root, maxBuffer: 1 << 26 })));
+    const ms = runs.map((x) => x.ms).sort((a, b) => a - b);
+    const rss = Math.max(...runs.map((x) => x.rss)) / 1024;
+    record('review_50k_ms', 'leeway review, 100 analytes × 2 materials × 250 runs (50,000 results)', ms[1], `${ms[0].toFixed(0)}–${ms[2].toFixed(0)} ms over 3 runs, peak memory ${rss.toFixed(0)} MiB (target ≤ 500), exit ${runs.map((x) => x.rc).join('/')}`, '≤ 10000', ' ms');
     out.review_50k_rss_mib = Number(rss.toPrecision(4));
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });

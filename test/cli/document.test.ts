@@ -12,8 +12,9 @@ import ExcelJS from 'exceljs';
 import { leeway, tempDir, TABLES } from './support';
 import { CAUTION, DEMO_MARKER, TITLE } from '../../src/engine/fill';
 import { VERSION } from '../../src/engine/version';
-import { DocumentSheet, SIGN_OFF_FIELDS, SIGN_OFF_ROLES, SIGN_OFF_TITLE, chooseOrientation, headerFooterStrings, printable, shownText, signOffGroups, wrappedLines } from '../../src/cli/document';
+import { DocumentSheet, SET_IN, tableBodyOf, SIGN_OFF_FIELDS, SIGN_OFF_ROLES, SIGN_OFF_TITLE, chooseOrientation, headerFooterStrings, printable, shownText, signOffGroups, wrappedLines } from '../../src/cli/document';
 import { newWorkbook } from '../../src/cli/files';
+import type { BodyValue } from '../../src/cli/document';
 
 const PRINT = path.join(TABLES, 'print.csv');
 const DATE = '2026-02-03';
@@ -255,5 +256,56 @@ describe('the layer’s parts', () => {
     expect(texts.join(' ')).toBe(CAUTION);
     expect(doc.ws.pageSetup.printTitlesRow).toMatch(/^\$?2:\$?2$/);
     expect(() => doc.finish()).toThrow(/already finished/);
+  });
+
+  test('a table body (plain rows) is measured, paged and styled as the same rows written as cells', () => {
+    const note = 'a long note that runs on and on past the widest a column may be before it wraps, so its column wraps and its rows grow';
+    const formats = [undefined, '0.00', '0.000', undefined, undefined];
+    const rows: BodyValue[][] = [
+      ['=R1', 1.5, { formula: '(B5-1)/2', result: 0.25 }, 'short', true],
+      ['R2', -12.345, { sharedFormula: 'C5', result: 0 }, note, { error: '#N/A' }],
+      ['R3', null, { sharedFormula: 'C5', result: '1-3s' }, '', false],
+      ['R4', 1234567.891, { sharedFormula: 'C5', result: { error: '#DIV/0!' } }, `${note} ${note}`, null],
+    ];
+    const build = (asBody: boolean): { doc: DocumentSheet; layout: ReturnType<DocumentSheet['finish']> } => {
+      const doc = new DocumentSheet(newWorkbook().addWorksheet('T'), { title: 'Table', demo: false, date: DATE });
+      doc.title('Table');
+      doc.header(['Run', 'Value', 'z', 'Note', 'Seen']);
+      for (const values of rows) {
+        if (asBody) {
+          doc.bodyLine(values, { formats });
+          continue;
+        }
+        // As cells: plain values through line(), formulas as the review's sheets write them.
+        const r = doc.line(values.map((v) => (typeof v === 'object' && v !== null && !('error' in v) ? null : (v as string | number | boolean | null | { error: string }))), { formats });
+        values.forEach((v, i) => {
+          if (!(typeof v === 'object' && v !== null && ('formula' in v || 'sharedFormula' in v))) return;
+          const cell = doc.ws.getCell(r, i + 1);
+          cell.value = ('formula' in v ? { formula: v.formula, result: v.result } : { sharedFormula: v.sharedFormula, result: v.result }) as ExcelJS.CellValue;
+          if (typeof v.result === 'number' && formats[i]) cell.numFmt = formats[i] as string;
+          if (typeof v.result === 'string') cell.alignment = SET_IN;
+        });
+      }
+      return { doc, layout: doc.finish() };
+    };
+    const cells = build(false);
+    const body = build(true);
+    expect(body.layout).toEqual(cells.layout);
+    expect(cells.layout.widths[3]).toBeGreaterThan(40); // the note column wrapped at its widest
+    const table = tableBodyOf(body.doc.ws)!;
+    expect(tableBodyOf(cells.doc.ws)).toBeUndefined();
+    expect([...table.rows.keys()]).toHaveLength(rows.length);
+    for (const [r, row] of table.rows) {
+      expect(row.height).toBe(cells.doc.ws.getRow(r).height);
+      expect(body.doc.ws.findRow(r)).toBeUndefined(); // no exceljs row: the body holds it
+      rows[0].forEach((_v, i) => {
+        const cell = cells.doc.ws.getCell(r, i + 1);
+        const style = table.style(row, i + 1);
+        if (row.values[i] === null) return expect(style).toBeUndefined();
+        expect({ numFmt: style?.numFmt, alignment: style?.alignment }).toEqual({ numFmt: cell.numFmt, alignment: cell.alignment });
+      });
+    }
+    // Rows of several lines read from the top, as cells of such rows do.
+    expect(Math.max(...[...table.rows.values()].map((row) => row.height))).toBeGreaterThan(15);
   });
 });

@@ -1,5 +1,6 @@
 import { controlChartSvg } from '../../src/charts/controlChart';
-import { pngSize, svgToPng } from '../../src/cli/picture';
+import { Resvg } from '@resvg/resvg-js';
+import { pngSize, rendererFonts, svgToPng } from '../../src/cli/picture';
 
 describe('svgToPng', () => {
   // PNG layout (signature, IHDR width/height big-endian at bytes 16–23): W3C PNG specification,
@@ -15,6 +16,19 @@ describe('svgToPng', () => {
     const size = pngSize(png);
     expect(size.width).toBe(Math.round(Number(m![1]) * 2));
     expect(size.height).toBe(Math.round(Number(m![2]) * 2));
+  });
+
+  test('text the preferred family draws is rendered with its files alone, pixel for pixel as with every system font; other text gets the system fonts', () => {
+    const latin = 'Glucose ± 2 × SD – “run” — 5 … −3 ‘ok’ • café straße';
+    const svg = controlChartSvg({ title: latin, series: [{ name: 'Level 1 é', points: [0, 1, 2, 3].map((i) => ({ index: i, z: i - 1.5, flags: i === 3 ? '1-3s' : '' })) }] });
+    const fonts = rendererFonts(svg);
+    const everyFont = new Resvg(svg, { fitTo: { mode: 'zoom', value: 2 }, background: 'white', font: { loadSystemFonts: true, defaultFontFamily: 'Liberation Sans', sansSerifFamily: 'Liberation Sans' } }).render().asPng();
+    if (!fonts.fontFiles) console.log('SKIPPED: Liberation Sans is not installed; pictures are rendered with every system font');
+    else {
+      expect(fonts.loadSystemFonts).toBe(false);
+      expect(Buffer.compare(svgToPng(svg, 2), everyFont)).toBe(0);
+    }
+    expect(rendererFonts(svg.replace('Glucose', 'Glucose Ωμέγα 血糖')).loadSystemFonts).toBe(true);
   });
 
   test('refuses a scale outside (0, 8] and bytes that are not a PNG', () => {

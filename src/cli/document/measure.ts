@@ -33,6 +33,9 @@ function charUnits(ch: string): number {
   return 1.2;
 }
 
+/** charUnits of the ASCII characters, looked up rather than worked out: every cell is measured several times. */
+const ASCII_UNITS = Float64Array.from({ length: 128 }, (_, code) => charUnits(String.fromCharCode(code)));
+
 export interface TextStyle {
   readonly bold?: boolean;
   /** Font size in points (11 default). */
@@ -42,17 +45,28 @@ export interface TextStyle {
 /** The width of one line of text, in column-width units. */
 export function textUnits(text: string, style: TextStyle = {}): number {
   let w = 0;
-  for (const ch of text) w += charUnits(ch);
+  for (let i = 0; i < text.length; i++) {
+    const code = text.charCodeAt(i);
+    if (code < 128) w += ASCII_UNITS[code];
+    else {
+      // A character beyond ASCII (a pair of UTF-16 units counts once, as before).
+      const cp = text.codePointAt(i) as number;
+      w += charUnits(String.fromCodePoint(cp));
+      if (cp > 0xffff) i++;
+    }
+  }
   return w * (style.bold ? 1.1 : 1) * ((style.size ?? 11) / 11);
 }
 
 /** The width of the widest line of a text (lines split at line breaks). */
 export function widestLine(text: string, style: TextStyle = {}): number {
+  if (!text.includes('\n')) return textUnits(text, style);
   return Math.max(0, ...text.split('\n').map((l) => textUnits(l, style)));
 }
 
 /** The width of the longest word: a wrapped column narrower than this breaks a word. */
 export function longestWord(text: string, style: TextStyle = {}): number {
+  if (!/\s/.test(text)) return textUnits(text, style);
   return Math.max(0, ...text.split(/\s+/).map((w) => textUnits(w, style)));
 }
 

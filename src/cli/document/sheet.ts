@@ -44,6 +44,69 @@ export interface LineStyle {
   readonly color?: string;
 }
 
+/** A formula's cached result, as the engine gives it. */
+export type FormulaResult = number | string | boolean | { readonly error: string };
+
+/**
+ * A cell of a table body (see DocumentSheet.bodyLine): what put() takes, or a formula as the file
+ * stores it with its cached result, or a cell of a shared formula (the master cell's formula moved
+ * to this cell) with its cached result.
+ */
+export type BodyValue = DocValue | { readonly formula: string; readonly result: FormulaResult } | { readonly sharedFormula: string; readonly result: FormulaResult };
+
+/** A row of a table body. */
+export interface BodyRow {
+  readonly values: readonly BodyValue[];
+  /** A number format per column, applied to numbers (and to formulas whose result is a number). */
+  readonly formats?: readonly (string | undefined)[];
+  /** Points; set by finish(). */
+  height: number;
+}
+
+/** A body cell's format, as exceljs writes a cell's style. */
+export interface BodyStyle {
+  readonly numFmt?: string;
+  readonly alignment?: Readonly<Partial<ExcelJS.Alignment>>;
+}
+
+/**
+ * The table body of a finished sheet: rows kept as plain values rather than exceljs cells (a
+ * review's tables hold tens of thousands of rows). Only a writer that reads it (the review's
+ * package writer) writes them; exceljs's own writer would write the sheet without them.
+ */
+export interface TableBody {
+  readonly rows: ReadonlyMap<number, BodyRow>;
+  /** The format of a body cell (shared objects: equal formats are the same object). */
+  style(row: BodyRow, col: number): BodyStyle | undefined;
+}
+
+const BODIES = new WeakMap<ExcelJS.Worksheet, TableBody>();
+
+/** The table body of a sheet written with bodyLine(), if any. */
+export function tableBodyOf(ws: ExcelJS.Worksheet): TableBody | undefined {
+  return BODIES.get(ws);
+}
+
+function isFormula(v: BodyValue): v is { readonly formula: string; readonly result: FormulaResult } | { readonly sharedFormula: string; readonly result: FormulaResult } {
+  return typeof v === 'object' && v !== null && ('formula' in v || 'sharedFormula' in v);
+}
+
+/** The text a body cell shows, as shownText() reads an exceljs cell. */
+function shownBody(v: BodyValue, format: string | undefined): string {
+  const x = isFormula(v) ? v.result : v;
+  if (x === null || x === undefined) return '';
+  if (typeof x === 'number') return shownNumber(x, format);
+  if (typeof x === 'string') return x;
+  if (typeof x === 'boolean') return x ? 'TRUE' : 'FALSE';
+  return String(x.error);
+}
+
+/** Text set in by one character, as put() sets it (a formula's text result is always set in). */
+function bodySetIn(v: BodyValue, col: number): boolean {
+  if (isFormula(v)) return typeof v.result === 'string';
+  return typeof v === 'string' && (col > 1 || FORMULA_LIKE.test(v));
+}
+
 export interface RowOptions {
   readonly bold?: boolean;
   /** A number format per column ("0.00"), applied to numbers. */
@@ -75,6 +138,12 @@ const SIGN_ROW_POINTS = 30;
 const FORMULA_LIKE = /^[=+\-@]/;
 /** Units an indent of 1 takes (the gap that keeps wrapped text off the number before it). */
 const INDENT_UNITS = 1.5;
+
+/**
+ * Text set in by one character. One object shared by every such cell (never changed in place:
+ * a cell whose alignment changes gets a new object), so a writer meets it once.
+ */
+export const SET_IN: Readonly<Partial<ExcelJS.Alignment>> = { horizontal: 'left', indent: 1 };
 
 const RED = 'FFC00000';
 const GREY = 'FF595959';
@@ -129,6 +198,9 @@ export class DocumentSheet {
   private titleRow: number | undefined;
   private hasCaution = false;
   private finished = false;
+  /** Table-body rows (bodyLine), by row. */
+  private readonly body = new Map<number, BodyRow>();
+  private readonly bodyStyles = new Map<string, BodyStyle>();
 
   constructor(
     readonly ws: ExcelJS.Worksheet,
@@ -191,6 +263,50 @@ export class DocumentSheet {
   }
 
   /**
+   * A table row at the cursor kept as plain values, not exceljs cells: for tables of thousands of
+   * rows. It prints, measures and is styled as line() would write it (text set in, formats on
+   * numbers); formulas come with their cached results. Only the review's package writer writes
+   * body rows (see tableBodyOf).
+   */
+  bodyLine(values: readonly BodyValue[], opts: { formats?: readonly (string | undefined)[] } = {}): number {
+    const r = this.row++;
+    this.body.set(r, { values, formats: opts.formats, height: LINE_POINTS });
+    if (!BODIES.has(this.ws)) BODIES.set(this.ws, { rows: this.body, style: (row, col) => this.bodyStyle(row, col) });
+    return r;
+  }
+
+  private bodyStyle(row: BodyRow, col: number): BodyStyle | undefined {
+    const v = row.values[col - 1];
+    if (v === null || v === undefined) return undefined;
+    const shown = isFormula(v) ? v.result : v;
+    const format = typeof shown === 'number' ? row.formats?.[col - 1] : undefined;
+    const setIn = bodySetIn(v, col);
+    const wrap = this.wrapCols.has(col);
+    const top = row.height > LINE_POINTS;
+    const key = `${format ?? ''}|${setIn}|${wrap}|${top}`;
+    let style = this.bodyStyles.get(key);
+    if (!style) {
+      // As setWidths() and setHeights() restyle cells of wrapped columns and rows of several lines.
+      let alignment: Partial<ExcelJS.Alignment> | undefined = setIn ? SET_IN : undefined;
+      if (wrap) alignment = { ...(alignment ?? {}), wrapText: true, vertical: 'top', indent: 1 };
+      if (top) alignment = { ...(alignment ?? {}), vertical: 'top' };
+      style = { ...(format ? { numFmt: format } : {}), ...(alignment ? { alignment } : {}) };
+      this.bodyStyles.set(key, style);
+    }
+    return style;
+  }
+
+  /** Each body cell that shows something: its row, column, text and whether it is set in. */
+  private eachBodyCell(fn: (r: number, c: number, text: string, setIn: boolean) => void): void {
+    for (const [r, row] of this.body) {
+      row.values.forEach((v, i) => {
+        const t = shownBody(v, row.formats?.[i]);
+        if (t !== '') fn(r, i + 1, t, bodySetIn(v, i + 1));
+      });
+    }
+  }
+
+  /**
    * One cell anywhere (a table filled after the rows below it). Text is stored as text ("=…"
    * included) and, after the first column or when it looks like a formula, set in by one character.
    */
@@ -199,7 +315,7 @@ export class DocumentSheet {
     const cell = this.ws.getCell(row, col);
     cell.value = value as ExcelJS.CellValue;
     // Text set in by one character: it never touches a right-aligned number in the column before.
-    if (typeof value === 'string' && (col > 1 || FORMULA_LIKE.test(value))) cell.alignment = { horizontal: 'left', indent: 1 };
+    if (typeof value === 'string' && (col > 1 || FORMULA_LIKE.test(value))) cell.alignment = SET_IN;
     if (opts.format && typeof value === 'number') cell.numFmt = opts.format;
     if (opts.bold) cell.font = { ...(cell.font ?? {}), bold: true };
   }
@@ -288,6 +404,7 @@ export class DocumentSheet {
         if (shownText(cell) !== '') last = Math.max(last, r);
       });
     });
+    this.eachBodyCell((r) => (last = Math.max(last, r)));
     return Math.max(last, this.row - 1);
   }
 
@@ -299,12 +416,18 @@ export class DocumentSheet {
         if (shownText(cell) !== '' && this.spans.get(r) !== c) last = Math.max(last, c);
       });
     });
+    this.eachBodyCell((r, c) => (last = Math.max(last, c)));
     return last;
   }
 
   private sheetHasCaution(): boolean {
     const texts: string[] = [];
-    this.ws.eachRow((row) => row.eachCell((c) => void (typeof c.value === 'string' && CAUTION.includes(c.value) && c.value.length > 20 && texts.push(c.value))));
+    const isPart = (v: unknown): v is string => typeof v === 'string' && CAUTION.includes(v) && v.length > 20;
+    // In row order, body rows among the others.
+    const found = new Map<number, string[]>();
+    this.ws.eachRow((row, r) => row.eachCell((c) => void (isPart(c.value) && found.set(r, [...(found.get(r) ?? []), c.value]))));
+    for (const [r, row] of this.body) for (const v of row.values) if (isPart(v)) found.set(r, [...(found.get(r) ?? []), v]);
+    for (const r of [...found.keys()].sort((a, b) => a - b)) texts.push(...(found.get(r) ?? []));
     return texts.join(' ') === CAUTION;
   }
 
@@ -329,6 +452,13 @@ export class DocumentSheet {
           words[c] = Math.max(words[c], longestWord(t, style) + CELL_PADDING + indent);
         }
       });
+    });
+    // Body cells: plain type (not bold, 11 points), set in or not.
+    this.eachBodyCell((r, c, t, setIn) => {
+      if (c > lastCol) return;
+      const indent = this.wrapCols.has(c) || setIn ? INDENT_UNITS : 0;
+      content[c] = Math.max(content[c], widestLine(t) + CELL_PADDING + indent);
+      words[c] = Math.max(words[c], longestWord(t) + CELL_PADDING + indent);
     });
     const widths = [0];
     for (let c = 1; c <= lastCol; c++) {
@@ -418,6 +548,12 @@ export class DocumentSheet {
     const heights: number[] = [0];
     for (let r = 1; r < this.row; r++) {
       const fixed = this.fixedHeights.get(r);
+      const body = this.body.get(r);
+      if (body) {
+        body.height = fixed ?? this.bodyHeight(body, lastCol, widths);
+        heights.push(body.height);
+        continue;
+      }
       let h = LINE_POINTS;
       const row = this.ws.getRow(r);
       row.eachCell({ includeEmpty: false }, (cell, c) => {
@@ -438,6 +574,21 @@ export class DocumentSheet {
       heights.push(height);
     }
     return heights;
+  }
+
+  /** A body row's height: as setHeights() measures a row of cells (plain type; wrapped in wrapped columns). */
+  private bodyHeight(row: BodyRow, lastCol: number, widths: number[]): number {
+    let h = LINE_POINTS;
+    row.values.forEach((v, i) => {
+      const c = i + 1;
+      const t = shownBody(v, row.formats?.[i]);
+      if (c > lastCol || t === '') return;
+      const wraps = this.wrapCols.has(c);
+      const indent = wraps || bodySetIn(v, c) ? INDENT_UNITS : 0;
+      const lines = wraps ? wrappedLines(t, widths[c] - indent) : t.split('\n').length;
+      h = Math.max(h, lines * LINE_POINTS);
+    });
+    return h;
   }
 
   /**

@@ -26,6 +26,7 @@ export interface Provenance {
 }
 
 export interface ReviewContext {
+  /** The workbook a sheet is built in: each sheet gets one of its own, written out once finished. */
   readonly wb: ExcelJS.Workbook;
   readonly provenance: Provenance;
   readonly paper: Paper;
@@ -34,6 +35,7 @@ export interface ReviewContext {
 /**
  * A sheet written after the review's own sheets (the EQA sheet, say): it adds its worksheets to
  * ctx.wb through the document-sheet layer and may use reviewSheet() for the same opening lines.
+ * Every worksheet it adds is written, in order, after the Results sheet.
  */
 export type ReviewSheetWriter = (ctx: ReviewContext) => void | Promise<void>;
 

@@ -12,12 +12,11 @@
  */
 import { createHash } from 'crypto';
 import * as path from 'path';
-import type ExcelJS from 'exceljs';
 import { UsageError } from '../call';
 import type { Io } from '../main';
 import { one, readOptions } from '../options';
 import { readKindMappings } from '../check';
-import { readBytes, checkOutput, writeWorkbookAtomically, today, newWorkbook } from '../files';
+import { readBytes, checkOutput, writeBytesAtomically, today, newWorkbook } from '../files';
 import { readPaper } from '../fill';
 import { progressBar } from '../progress';
 import type { Progress } from '../progress';
@@ -40,9 +39,11 @@ import type { AnalyteReview, ReviewRequest } from './model';
 import type { Provenance, ReviewContext, ReviewSheetWriter } from './context';
 import { writeSummarySheet, SUMMARY_SHEET } from './summarySheet';
 import { writeResultsSheet, RESULTS_SHEET } from './resultsSheet';
+import type { Block } from './resultsSheet';
 import { startChart, writeMaterialSheet } from './materialSheet';
 import type { PendingChart } from './materialSheet';
 import { sheetNames } from './names';
+import { WorkbookPackage } from './package';
 
 export type { ReviewSheetWriter, ReviewContext } from './context';
 
@@ -78,20 +79,39 @@ export function reviewAll(request: ReviewRequest): AnalyteReview[] {
   return request.file.analytes.map((a) => reviewAnalyte(a, analyteBlock(a), request));
 }
 
-/** Builds the review workbook in memory. */
-export async function buildReviewWorkbook(b: ReviewBuild): Promise<{ wb: ExcelJS.Workbook; analytes: AnalyteReview[] }> {
-  const wb = newWorkbook();
-  wb.creator = `Leeway ${VERSION}`;
-  wb.title = b.provenance.demo ? `Leeway control review — ${DEMO_MARKER}` : 'Leeway control review';
-  const ctx: ReviewContext = { wb, provenance: b.provenance, paper: b.paper };
+/** Gives a finished sheet's workbook its views and writes its sheets into the package from tab `position` on. */
+function place(pkg: WorkbookPackage, ctx: ReviewContext, position: number): number {
+  for (const ws of ctx.wb.worksheets) ws.views = [{ state: 'normal', zoomScale: 100 }];
+  return pkg.addWorkbook(ctx.wb, position);
+}
+
+/**
+ * Builds the review workbook: the Summary, one sheet per analyte and material, the Results sheet,
+ * then any extra sheets. Each sheet is built in an exceljs workbook of its own, finished by the
+ * document-sheet layer and written into the package at once (see ./package.ts), so no more than
+ * one sheet is held in memory. The Results sheet is built first (the flags refer to its rows) and
+ * placed after the analytes' sheets.
+ */
+export async function buildReviewPackage(b: ReviewBuild): Promise<{ bytes: Buffer; analytes: AnalyteReview[] }> {
+  const pkg = new WorkbookPackage({
+    creator: `Leeway ${VERSION}`,
+    title: b.provenance.demo ? `Leeway control review — ${DEMO_MARKER}` : 'Leeway control review',
+  });
+  const sheet = (): ReviewContext => ({ wb: newWorkbook(), provenance: b.provenance, paper: b.paper });
+  const sheetWith = (write: (ctx: ReviewContext) => unknown): ReviewContext => {
+    const ctx = sheet();
+    write(ctx);
+    return ctx;
+  };
   const request: ReviewRequest = { file: b.file, table: b.table, tier: b.tier, rule: b.rule, labRunSize: b.labRunSize };
   const analytes = reviewAll(request);
   const names = sheetNames(analytes.map((a) => a.materials.map((m) => `${a.analyte} ${m.level.level}`)), [SUMMARY_SHEET, RESULTS_SHEET]);
-  writeSummarySheet(ctx, analytes, b.labRunSize);
-  const blocks = writeResultsSheet(ctx, analytes);
-  const resultsSheet = wb.getWorksheet(RESULTS_SHEET);
-  // Charts render on worker threads, a few sheets ahead of the sheet that places each.
   const charts = analytes.flatMap((a, ai) => a.materials.map((m, mi) => ({ a, ai, m, mi })));
+  // Each sheet's workbook is a short-lived value, left to the collector once written.
+  place(pkg, sheetWith((ctx) => writeSummarySheet(ctx, analytes, b.labRunSize)), 1);
+  let blocks: Block[] = [];
+  place(pkg, sheetWith((ctx) => (blocks = writeResultsSheet(ctx, analytes))), charts.length + 2);
+  // Charts render on worker threads, a few sheets ahead of the sheet that places each.
   const pending: PendingChart[] = [];
   const start = (k: number): void => {
     if (k < charts.length) pending[k] = startChart(charts[k].a, charts[k].m);
@@ -100,19 +120,21 @@ export async function buildReviewWorkbook(b: ReviewBuild): Promise<{ wb: ExcelJS
   for (let k = 0; k < charts.length; k++) {
     start(k + CHARTS_AHEAD);
     const { a, ai, m, mi } = charts[k];
+    const ctx = sheet();
     await writeMaterialSheet(ctx, names[ai][mi], a, m, blocks[ai], pending[k]);
+    place(pkg, ctx, k + 2);
     delete pending[k];
     b.progress?.update(k + 1, charts.length);
     // The renderer's native memory is released by finalizers that run between turns of the event loop.
     await new Promise((resolve) => setImmediate(resolve));
   }
-  // The results as read go after the analytes' sheets.
-  // exceljs orders the sheets it writes by orderNo (set when a sheet is added; not in its types).
-  const order = (w: ExcelJS.Worksheet): { orderNo: number } => w as unknown as { orderNo: number };
-  if (resultsSheet) order(resultsSheet).orderNo = wb.worksheets.reduce((m, w) => Math.max(m, order(w).orderNo), 0) + 1;
-  for (const write of b.extraSheets ?? []) await write(ctx);
-  for (const ws of wb.worksheets) ws.views = [{ state: 'normal', zoomScale: 100 }];
-  return { wb, analytes };
+  let position = charts.length + 3;
+  for (const write of b.extraSheets ?? []) {
+    const ctx = sheet();
+    await write(ctx);
+    position += place(pkg, ctx, position);
+  }
+  return { bytes: await pkg.finish(), analytes };
 }
 
 function readRunSize(text: string | undefined): number | undefined {
@@ -239,8 +261,8 @@ export async function reviewCommand(args: string[], io: Io): Promise<number> {
       writeEqaSheet(ctx.wb, { results: found.file.results, limits: eqaLimits(table?.table), source: { kind: 'file', name: found.name, bytes: found.bytes }, date: ctx.provenance.date, paper: ctx.paper });
     });
   }
-  const { wb, analytes } = await buildReviewWorkbook({ file, table: table?.table, tier, rule, labRunSize, provenance, paper, progress: bar, extraSheets });
-  await writeWorkbookAtomically(wb, out, force);
+  const { bytes: workbook, analytes } = await buildReviewPackage({ file, table: table?.table, tier, rule, labRunSize, provenance, paper, progress: bar, extraSheets });
+  await writeBytesAtomically(workbook, out, force);
   bar.done();
   const sheets = analytes.reduce((n, a) => n + a.materials.length, 0);
   const n = file.results.length;

@@ -6,7 +6,8 @@
  * with the engine's value cached, so the sheet reads the same with or without the add-in.
  */
 import type ExcelJS from 'exceljs';
-import type { DocumentSheet } from '../document';
+import type { BodyValue, DocumentSheet } from '../document';
+import { SET_IN } from '../document';
 import { storedFormula } from '../xlsx';
 import { chartSeries } from '../../charts/controlChart';
 import type { ChartPoint } from '../../charts/controlChart';
@@ -53,15 +54,7 @@ function live(ws: ExcelJS.Worksheet, row: number, col: number, typed: string, va
   const cell = ws.getCell(row, col);
   cell.value = { formula: storedFormula(typed), result: cached(value) };
   if (format && typeof value === 'number') cell.numFmt = format;
-  if (typeof value === 'string') cell.alignment = { horizontal: 'left', indent: 1 };
-}
-
-/** A cell of a shared formula: the master's formula moved to this row, with its cached value. */
-function shared(ws: ExcelJS.Worksheet, row: number, col: number, master: string, value: OutCell, format?: string): void {
-  const cell = ws.getCell(row, col);
-  cell.value = { sharedFormula: master, result: cached(value) };
-  if (format && typeof value === 'number') cell.numFmt = format;
-  if (typeof value === 'string') cell.alignment = { horizontal: 'left', indent: 1 };
+  if (typeof value === 'string') cell.alignment = SET_IN;
 }
 
 /** A rule as a formula's text argument. */
@@ -187,18 +180,17 @@ export async function writeMaterialSheet(ctx: ReviewContext, name: string, a: An
   const zMaster = `${LETTER_Z}${t.first}`;
   const flagMaster = `${LETTER_FLAGS}${t.first}`;
   const lines = blockRange(block, R.line);
+  // The table is a body of plain rows (hundreds per sheet, tens of thousands per workbook).
+  const formats: (string | undefined)[] = [];
+  formats[TABLE.z - 1] = F2;
   results.forEach((res, i) => {
-    const r = doc.line([res.run, res.date ?? '', res.value, res.target, res.sd]);
-    doc.put(r, TABLE.line, res.line);
+    const r = doc.row;
     const flag = m.flags[i] === '' ? NO_FLAG : m.flags[i];
-    if (i === 0) {
-      live(doc.ws, r, TABLE.z, `=(C${r}-D${r})/E${r}`, m.z[i], F2);
-      const at = `INDEX(${flagsCall},MATCH($H${r},${lines},0))`;
-      live(doc.ws, r, TABLE.flags, `=IF(${at}="","${NO_FLAG}",${at})`, flag);
-      return;
-    }
-    shared(doc.ws, r, TABLE.z, zMaster, m.z[i], F2);
-    shared(doc.ws, r, TABLE.flags, flagMaster, flag);
+    const at = `INDEX(${flagsCall},MATCH($H${r},${lines},0))`;
+    const z: BodyValue = i === 0 ? { formula: storedFormula(`=(C${r}-D${r})/E${r}`), result: m.z[i] } : { sharedFormula: zMaster, result: m.z[i] };
+    const flags: BodyValue = i === 0 ? { formula: storedFormula(`=IF(${at}="","${NO_FLAG}",${at})`), result: flag } : { sharedFormula: flagMaster, result: flag };
+    // In the order of TABLE: run, date, value, target, SD, z, flags, row in file.
+    doc.bodyLine([res.run, res.date ?? '', res.value, res.target, res.sd, z, flags, res.line], { formats });
   });
   writeFigures(doc, figuresTop, a, m, t, block);
   writePerformance(doc, perfTop, a, m, t);

@@ -2,10 +2,11 @@
  * The control charts of a review as PNG pictures, rendered on Node's worker threads while the
  * sheets are written (resvg's renderAsync), with the same renderer settings as svgToPng in
  * ../picture.ts: scale 1 (the picture is shown at three quarters of its pixel width), a white
- * background and the installed fonts with Liberation Sans preferred.
+ * background and the fonts of rendererFonts (Liberation Sans preferred).
  */
 import type ResvgModule from '@resvg/resvg-js';
 import { controlChartSvg } from '../../charts/controlChart';
+import { rendererFonts } from '../picture';
 import type { ChartPoint } from '../../charts/controlChart';
 
 /** The chart's drawing width in pixels, and its width on the sheet (fits a portrait page at 100 %). */
@@ -36,7 +37,7 @@ export function renderChart(title: string, name: string, points: readonly ChartP
   const png = renderAsync(svg, {
     fitTo: { mode: 'zoom', value: 1 },
     background: 'white',
-    font: { loadSystemFonts: true, defaultFontFamily: 'Liberation Sans', sansSerifFamily: 'Liberation Sans' },
+    font: rendererFonts(svg),
   }).then((r) => r.asPng());
   return { width: CHART_SHOWN_WIDTH, height, png };
 }

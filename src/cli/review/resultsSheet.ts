@@ -35,7 +35,8 @@ export function writeResultsSheet(ctx: ReviewContext, analytes: readonly Analyte
   const blocks: Block[] = [];
   for (const a of analytes) {
     const first = doc.row;
-    for (const r of a.results) doc.line([r.line, r.analyte, r.level, r.run, r.date ?? '', r.value, r.target, r.sd, ...optional.map((f) => r[f])]);
+    // A body of plain rows: the sheet holds every result of the file.
+    for (const r of a.results) doc.bodyLine([r.line, r.analyte, r.level, r.run, r.date ?? '', r.value, r.target, r.sd, ...optional.map((f) => r[f])]);
     blocks.push({ first, last: doc.row - 1 });
   }
   doc.finish();
