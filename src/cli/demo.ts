@@ -34,6 +34,7 @@ import type { Fig } from '../engine/assess';
 import type { QcPlan } from '../engine/qc/plan';
 import { QC_PLAN } from '../registry/catalogue/qc';
 import { writeEqaSheet } from './eqa';
+import type { EqaSheetInput } from './eqa';
 import { demoEqaInput } from './eqa/demo';
 
 export const DEMO_USAGE = `  leeway demo [--out FILE] [--force] [--live] [--date YYYY-MM-DD] [--paper A4|Letter]
@@ -305,10 +306,15 @@ function replicationSheet(ctx: DemoContext): void {
  * comparison round among the laboratory's own analysers scored against their consensus.
  */
 function eqaSheet(ctx: DemoContext): void {
+  writeEqaSheet(ctx.wb, demoEqaSheetInput(ctx.figures, ctx.date, ctx.paper));
+}
+
+/** The demo's EQA sheet input (invented rounds and scheme), for the demo workbook and `leeway review --demo`. */
+export function demoEqaSheetInput(figures: readonly Observed[] = demoFigures(), date: string = today(), paper: Paper = 'A4'): EqaSheetInput {
   const table = demoTable();
-  const analytes = ctx.figures.map((f, i) => ({ data: f.data, cvi: f.cvi, limitAbs: table.rows[i].limitAbs, limitPct: table.rows[i].limitPct, expandedPercent: num(f.expanded) }));
+  const analytes = figures.map((f, i) => ({ data: f.data, cvi: f.cvi, limitAbs: table.rows[i].limitAbs, limitPct: table.rows[i].limitPct, expandedPercent: num(f.expanded) }));
   const intro = [`${DEMO_LAB}: bringing ${DEMO_ANALYSERS.candidate} into service beside ${DEMO_ANALYSERS.current}. Leeway ${VERSION}.`];
-  writeEqaSheet(ctx.wb, demoEqaInput(analytes, { date: ctx.date, paper: ctx.paper, intro }));
+  return demoEqaInput(analytes, { date, paper, intro });
 }
 
 /** Method comparison: Passing–Bablok at the medical decision level. */

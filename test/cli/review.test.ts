@@ -421,7 +421,10 @@ describe('leeway review --demo', () => {
     expect(r.err).toEqual([]);
     expect(r.out[0]).toContain(DEMO_MARKER);
     const wb = await readBack(out);
-    expect(wb.worksheets).toHaveLength(2 + 12 * 2);
+    // Summary, 12 analytes × 2 materials, Results, and the EQA sheet of the demo's invented rounds.
+    expect(wb.worksheets).toHaveLength(2 + 12 * 2 + 1);
+    expect(wb.worksheets[wb.worksheets.length - 1].name).toBe('EQA');
+    expect(r.out[0]).toContain('the EQA sheet of the invented rounds');
     for (const ws of wb.worksheets) {
       expect(sheetText(ws)).toContain(DEMO_MARKER);
       expect(ws.headerFooter.oddHeader).toContain(DEMO_MARKER);

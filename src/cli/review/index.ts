@@ -24,6 +24,7 @@ import type { Paper } from '../document';
 import { parseResultsBytes, acceptResults, formatProblem, formatReport, parseEqaBytes, acceptEqa } from '../../engine/import';
 import type { EqaResultsFile } from '../../engine/import';
 import { writeEqaSheet } from '../eqa';
+import { demoEqaSheetInput } from '../demo';
 import type { EqaLimit } from '../../engine/eqaRounds';
 import type { ControlResultsFile } from '../../engine/import';
 import { parseTableBytes, acceptImport, formatReport as formatTableReport, formatProblem as formatTableProblem } from '../../engine/table';
@@ -255,6 +256,12 @@ export async function reviewCommand(args: string[], io: Io): Promise<number> {
   };
   const bar = progressBar('reviewing');
   const extraSheets: ReviewSheetWriter[] = [];
+  if (demo && !eqa) {
+    // The invented demo's EQA rounds, so the demo review shows the EQA sheet as --eqa writes it.
+    extraSheets.push((ctx) => {
+      writeEqaSheet(ctx.wb, demoEqaSheetInput(undefined, ctx.provenance.date, ctx.paper));
+    });
+  }
   if (eqa) {
     const found = eqa;
     extraSheets.push((ctx) => {
@@ -266,6 +273,6 @@ export async function reviewCommand(args: string[], io: Io): Promise<number> {
   bar.done();
   const sheets = analytes.reduce((n, a) => n + a.materials.length, 0);
   const n = file.results.length;
-  io.out(`wrote ${out}: ${n} control result${n === 1 ? '' : 's'}, ${analytes.length} analyte${analytes.length === 1 ? '' : 's'}, ${sheets} analyte × material sheet${sheets === 1 ? '' : 's'}, a summary and the results as read${eqa ? `, and an EQA sheet (${eqa.file.results.length} EQA result${eqa.file.results.length === 1 ? '' : 's'})` : ''}${demo ? ` — ${DEMO_MARKER}` : ''}`);
+  io.out(`wrote ${out}: ${n} control result${n === 1 ? '' : 's'}, ${analytes.length} analyte${analytes.length === 1 ? '' : 's'}, ${sheets} analyte × material sheet${sheets === 1 ? '' : 's'}, a summary and the results as read${eqa ? `, and an EQA sheet (${eqa.file.results.length} EQA result${eqa.file.results.length === 1 ? '' : 's'})` : demo ? ', and the EQA sheet of the invented rounds' : ''}${demo ? ` — ${DEMO_MARKER}` : ''}`);
   return 0;
 }
