@@ -421,6 +421,39 @@ const cvg = new Float64Array(N);
   timing('plan_sheet_300_ms', 'a sheet of 300 QC.PLAN calls recalculated in HyperFormula, cold caches', recalc, '≤ 5000');
 }
 
+// The worst accepted inputs of the QC functions, cold: rules near the largest machine the parser
+// compiles (5,000 states), up to 100 controls and 10,000 runs. Each call either answers or is
+// refused by the chain's work budget with #NUM!; either way it must end within 250 ms.
+{
+  const heavy = [
+    ['QC.DETECT', ['70-0.1s/70-x/R-4s', 100, 0.5, 10000]],
+    ['QC.DETECT', ['70-0.1s/70-x/R-4s', 4, 0, 10000]],
+    ['QC.DETECT', ['70-0.1s/70-x/R-4s', 4, 0, 6]], // the most runs of it the budget accepts
+    ['QC.DETECT', ['50-0.5s/49-1s/R-4s/1-3s', 100, 0.5, 10000]],
+    ['QC.DETECT', ['2of6-0.5s/6of6-1s/100-x/R-4s', 100, 0, 10000]],
+    ['QC.DETECT', ['1-3s/2-2s/R-4s/4-1s/10-x', 100, 0, 10000]],
+    ['QC.FALSEREJECT', ['70-0.1s/70-x/R-4s', 100, 10000]],
+    ['QC.RISK', [6, 1, 1.5, '70-0.1s/70-x/R-4s', 4, 100]],
+    ['QC.RISK', [6, 1, 1.5, '2of6-0.5s/6of6-1s/100-x/R-4s', 100, 100]],
+    ['QC.RUNSIZE', [6, 1, 1.5, '50-0.5s/49-1s/R-4s/1-3s', 20]],
+    ['QC.PLAN', [2.9, 0.2, 1]],
+  ];
+  let worst = { median: 0, min: 0, max: 0 };
+  let worstCall = '';
+  for (const [name, args] of heavy) {
+    const t = measure(() => {
+      L.clearQcCaches();
+      L.clearRiskCaches();
+      L.evaluate(name, args);
+    }, { runs: 3, warmup: 0 });
+    if (t.median > worst.median) {
+      worst = t;
+      worstCall = `${name}(${args.map((a) => JSON.stringify(a)).join(', ')})`;
+    }
+  }
+  timing('qc_worst_ms', `the slowest of ${heavy.length} worst-case QC calls, cold: ${worstCall}`, worst, '≤ 250');
+}
+
 // --- Files, each read or filled by the built command in a fresh process (its wall time inside
 // the process and its peak resident memory): a table whose every line ends in 5,000 empty
 // columns (a spreadsheet saving a wide empty range), `--mb` megabytes (default 100); a template

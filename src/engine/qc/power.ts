@@ -284,6 +284,9 @@ interface RunTable {
   readonly ways: Float64Array;
 }
 
+/** The most entries of the dense matrix a run table is summed into (states²). */
+const MAX_DENSE = 4_000_000;
+
 /** The most class sequences × states a run table may enumerate. */
 const MAX_TABLE_WORK = 2_000_000;
 
@@ -429,7 +432,53 @@ function sum(v: Float64Array): number {
  * The chain's step over one run (QC event) at shift Δ: from the state distribution before the
  * run to the unnormalised distribution of the states that pass it (its sum is P(pass)).
  */
-function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tabled = false): (v: Float64Array) => Float64Array {
+/** A run of the chain as a function of the state distribution, and its cost in multiply-adds. */
+interface RunStep {
+  readonly step: (v: Float64Array) => Float64Array;
+  readonly cost: number;
+}
+
+/**
+ * The most multiply-adds one evaluation of the chain may take (0.5–1.3 ns each measured on the
+ * build machine, so at most about 0.2 s): beyond it the rule, n and runs together are refused with a message rather than let one
+ * cell compute for seconds. The published multirules need well under 1 % of it (the five-term
+ * multirule with n = 100 over 10,000 runs: 4e7).
+ */
+export const MAX_CHAIN_WORK = 150_000_000;
+
+/**
+ * Work left for a computation made of many chain evaluations (QC.RISK's search over the shift):
+ * while withChainBudget runs, every run of the chain is charged to one budget of MAX_CHAIN_WORK.
+ */
+let shared: { left: number } | undefined;
+
+export function withChainBudget<T>(fn: () => T): T {
+  if (shared) return fn();
+  shared = { left: MAX_CHAIN_WORK };
+  try {
+    return fn();
+  } finally {
+    shared = undefined;
+  }
+}
+
+/** Charges one run of the chain; refuses when this evaluation, or the computation it is part of, has spent its budget. */
+function charge(m: RuleMachine, n: number, runs: number | undefined, spent: number, cost: number): void {
+  if (spent > MAX_CHAIN_WORK) tooCostly(m, n, runs);
+  if (shared) {
+    shared.left -= cost;
+    if (shared.left < 0) tooCostly(m, n, runs);
+  }
+}
+
+function tooCostly(m: RuleMachine, n: number, runs: number | undefined): never {
+  const what = runs === undefined ? `n = ${n}` : `n = ${n} over ${runs} runs`;
+  throw numError(
+    `rule with ${m.states} states and ${what} is too costly to evaluate in a cell (more than ${MAX_CHAIN_WORK / 1e6} million steps): use fewer controls per run, fewer runs, or smaller counts in the rule`,
+  );
+}
+
+function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tabled = false): RunStep {
   const top = m.bounds.length ? m.bounds[m.bounds.length - 1] : 0;
   // Beyond the top boundary + 40 SD every observation is in the top class with probability 1 in
   // double precision, and the range of a run does not depend on the shift: the answer is the same.
@@ -445,7 +494,9 @@ function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tab
   const useRange = m.rangeLimit !== undefined && n >= 2;
   if (useRange) {
     const nodes = rangeNodes(m, d, m.rangeLimit as number, q);
-    const table = tabled ? runTableOf(m, n) : undefined;
+    // The tabulated run is a dense states × states matrix while it is built: only for machines
+    // small enough that it is (MAX_DENSE entries, 32 MB); larger ones take the run step by step.
+    const table = tabled && S * S <= MAX_DENSE ? runTableOf(m, n) : undefined;
     if (table) {
       // The matrix is sparse (a run leads from a state to few others): kept by rows.
       const T = tableMatrix(m, n, table, nodes);
@@ -464,7 +515,7 @@ function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tab
       }
       const col = Int32Array.from(cols);
       const val = Float64Array.from(vals);
-      return (v) => {
+      const step = (v: Float64Array): Float64Array => {
         const w = new Float64Array(S);
         for (let s = 0; s < S; s++) {
           const vs = v[s];
@@ -473,11 +524,12 @@ function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tab
         }
         return w;
       };
+      return { step, cost: S + val.length };
     }
     const work = [0, 1, 2, 3].map(() => new Float64Array(S));
-    return (v) => rangeRun(m, n, v, nodes, work);
+    return { step: (v) => rangeRun(m, n, v, nodes, work), cost: n * S * (nodes.cls.length + nodes.count) * 2 };
   }
-  return (v) => {
+  const step = (v: Float64Array): Float64Array => {
     let w = v;
     for (let i = 0; i < n; i++) {
       const out = new Float64Array(S);
@@ -486,6 +538,7 @@ function runStepper(m: RuleMachine, n: number, shift: number, q: Quadrature, tab
     }
     return w;
   };
+  return { step, cost: n * S * K };
 }
 
 /** The normalised state distribution has stopped changing when no entry moves by more than this. */
@@ -504,13 +557,14 @@ function settled(u: Float64Array, prev: Float64Array, uMass: number, prevMass: n
  */
 export function chainSurvival(m: RuleMachine, n: number, shift: number, runs: number, q: Quadrature = DEFAULT_QUADRATURE): number {
   const S = m.states;
-  const step = runStepper(m, n, shift, q);
+  const { step, cost } = runStepper(m, n, shift, q);
   let v = new Float64Array(S);
   v[0] = 1;
   let mass = 1;
   let prev: Float64Array | undefined;
   let prevMass = 1;
   for (let r = 1; r <= runs; r++) {
+    charge(m, n, runs, r * cost, cost);
     const w = step(v);
     const wMass = sum(w);
     if (!(wMass > 1e-300)) return 0;
@@ -692,7 +746,7 @@ export function chainSequence(
   tabled = true,
 ): SurvivalSequence | undefined {
   const S = m.states;
-  const step = runStepper(m, n, shift, q, tabled);
+  const { step, cost } = runStepper(m, n, shift, q, tabled);
   let v = new Float64Array(S);
   v[0] = 1;
   const survival: number[] = [];
@@ -701,6 +755,7 @@ export function chainSequence(
   let prev: Float64Array | undefined;
   let prevMass = 1;
   for (let k = 1; k <= MAX_RUNS; k++) {
+    charge(m, n, undefined, k * cost, cost);
     const w = step(v);
     const wMass = Math.min(1, sum(w));
     mass *= wMass;

@@ -61,7 +61,7 @@ import { numError } from '../errors';
 import { divisor, finite, show, wholeNumber, positive, nonNegative } from '../guards';
 import { normalCdf } from '../normal';
 import { BoundedCache } from './cache';
-import { checkControls, gaussLegendre, survivalSequence } from './power';
+import { checkControls, gaussLegendre, survivalSequence, withChainBudget } from './power';
 import { ControlRule, parseRule } from './rules';
 
 /** The largest shift searched, SD. */
@@ -369,7 +369,9 @@ function peakOf(m: Method, rule: ControlRule, n: number): Peak {
   const key = `${m.key}|${rule.key}|${n}`;
   const hit = PEAKS.get(key);
   if (hit) return hit;
-  const peak = locatePeak((shift) => perResult(m, rule, n, shift));
+  // The whole search over the shift shares one budget of chain work (power.ts), so a costly
+  // rule is refused in a fraction of a second instead of once per shift tried.
+  const peak = withChainBudget(() => locatePeak((shift) => perResult(m, rule, n, shift)));
   PEAKS.set(key, peak);
   return peak;
 }
