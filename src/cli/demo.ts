@@ -461,6 +461,8 @@ function tableAt(doc: DocumentSheet, heading: string, header: readonly string[],
  */
 function verificationSheet(ctx: DemoContext): void {
   const doc = demoSheet(ctx, VERIFICATION_SHEET, `Leeway demo: verification of ${DEMO_ANALYSERS.candidate} before it reports patient results`);
+  // Four different tables, each starting a page: none of their headers is repeated above another's rows.
+  doc.noPrintTitle();
   const data = demoSheet(ctx, VERIFICATION_DATA_SHEET, 'Leeway demo: verification study, raw data (invented)');
   const study = verificationFigures(ctx.figures);
   const log = new FormulaLog(doc);

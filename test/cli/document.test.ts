@@ -160,9 +160,14 @@ describe('leeway demo: every sheet is a printed document', () => {
       expect(ws.pageSetup).toMatchObject({ paperSize: 9, fitToPage: true, fitToWidth: 1, fitToHeight: 0 });
       expect(ws.headerFooter.oddHeader).toBe(`&LLeeway demo — ${ws.name}&R${DEMO_MARKER}`);
       expect(ws.headerFooter.oddFooter).toBe(`&L${DATE}&CPage &P of &N&RLeeway ${VERSION}`);
-      const title = Number(/^\$?(\d+):/.exec(ws.pageSetup.printTitlesRow!)![1]);
-      expect(ws.getCell(title, 1).value).toBe('Analyte');
-      expect(ws.getCell(title, 1).font?.bold).toBe(true);
+      if (ws.name === 'Verification') {
+        // Four different tables, each starting a page of its own: no header repeated above another table's rows.
+        expect(ws.pageSetup.printTitlesRow).toBeUndefined();
+      } else {
+        const title = Number(/^\$?(\d+):/.exec(ws.pageSetup.printTitlesRow!)![1]);
+        expect(ws.getCell(title, 1).value).toBe('Analyte');
+        expect(ws.getCell(title, 1).font?.bold).toBe(true);
+      }
       expectSignOff(ws, Number(ws.getColumn(ws.pageSetup.printArea!.split(':')[1].replace(/[\d$]/g, '')).number));
     }
   });

@@ -196,6 +196,7 @@ export class DocumentSheet {
   /** Rows whose line across the page was merged and wrapped. */
   private readonly wrapped = new Set<number>();
   private titleRow: number | undefined;
+  private repeatNone = false;
   private hasCaution = false;
   private finished = false;
   /** Table-body rows (bodyLine), by row. */
@@ -335,10 +336,19 @@ export class DocumentSheet {
     this.titleRow = row;
   }
 
+  /**
+   * No header row repeated on the printed pages: for a sheet of several different tables, each
+   * starting a page of its own, where one table's header above another's rows would mislead.
+   */
+  noPrintTitle(): void {
+    this.titleRow = undefined;
+    this.repeatNone = true;
+  }
+
   /** Marks a row written by someone else (a fill plan's writer) as a table header row. */
   markHeader(row: number): void {
     this.headers.add(row);
-    if (this.titleRow === undefined) this.titleRow = row;
+    if (this.titleRow === undefined && !this.repeatNone) this.titleRow = row;
   }
 
   /** Marks a cell written by someone else as a line of text running from its column across the printed width. */
