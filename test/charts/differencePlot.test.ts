@@ -10,38 +10,8 @@ import type { AgreementLines, DifferencePair } from '../../src/charts/difference
 import { svgToPng } from '../../src/cli/picture';
 import { evaluate } from '../../src/registry';
 import { mulberry32 } from '../support/prng';
-
-const xml2js: { parseStringPromise(text: string, options?: object): Promise<Record<string, unknown>> } = require('xml2js');
-
-interface El {
-  name: string;
-  attrs: Record<string, string>;
-  text: string;
-  parent?: El;
-}
-
-async function elements(svg: string): Promise<El[]> {
-  const doc = await xml2js.parseStringPromise(svg, { strict: true });
-  const out: El[] = [];
-  const walk = (name: string, node: unknown, parent?: El): void => {
-    if (typeof node === 'string') {
-      out.push({ name, attrs: {}, text: node, parent });
-      return;
-    }
-    const o = node as Record<string, unknown>;
-    const el: El = { name, attrs: (o.$ as Record<string, string>) ?? {}, text: typeof o._ === 'string' ? o._ : '', parent };
-    out.push(el);
-    for (const [k, v] of Object.entries(o)) {
-      if (k === '$' || k === '_') continue;
-      for (const child of v as unknown[]) walk(k, child, el);
-    }
-  };
-  const [rootName] = Object.keys(doc);
-  walk(rootName, doc[rootName]);
-  return out;
-}
-
-const byClass = (els: El[], cls: string): El[] => els.filter((e) => (e.attrs.class ?? '').split(' ').includes(cls));
+import { elements, byClass } from '../support/svg';
+import type { El } from '../support/svg';
 
 /** Seeded pairs (seed 7041): 30 results on two methods, the second 2 % higher with 3 % noise. */
 function pairs(): DifferencePair[] {

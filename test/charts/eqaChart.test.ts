@@ -7,31 +7,8 @@ import { eqaChartRounds, eqaChartSvg } from '../../src/charts/eqaChart';
 import type { EqaChartRound } from '../../src/charts/eqaChart';
 import { eqaRounds } from '../../src/engine/eqaRounds';
 import { mulberry32, uniform } from '../support/prng';
-
-const xml2js: { parseStringPromise(text: string, options?: object): Promise<Record<string, unknown>> } = require('xml2js');
-
-interface El {
-  name: string;
-  attrs: Record<string, string>;
-  text: string;
-}
-
-async function elements(svg: string): Promise<El[]> {
-  const doc = await xml2js.parseStringPromise(svg, { strict: true });
-  const out: El[] = [];
-  const walk = (name: string, node: unknown): void => {
-    if (typeof node === 'string') {
-      out.push({ name, attrs: {}, text: node });
-      return;
-    }
-    const o = node as Record<string, unknown>;
-    out.push({ name, attrs: (o.$ as Record<string, string>) ?? {}, text: typeof o._ === 'string' ? o._ : '' });
-    for (const [k, v] of Object.entries(o)) if (k !== '$' && k !== '_') for (const child of v as unknown[]) walk(k, child);
-  };
-  const [root] = Object.keys(doc);
-  walk(root, doc[root]);
-  return out;
-}
+import { elements } from '../support/svg';
+import type { El } from '../support/svg';
 
 const cls = (els: El[], c: string): El[] => els.filter((e) => (e.attrs.class ?? '').split(' ').includes(c));
 

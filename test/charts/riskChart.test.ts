@@ -6,31 +6,7 @@ import { riskChartSvg, riskChartText, riskAxisTop, showRisk } from '../../src/ch
 import type { RiskChartInput } from '../../src/charts/riskChart';
 import { riskCurve } from '../../src/engine/qc/risk';
 import { shiftAxis } from '../../src/engine/qc/power';
-
-const xml2js: { parseStringPromise(text: string, options?: object): Promise<Record<string, unknown>> } = require('xml2js');
-
-interface El {
-  name: string;
-  attrs: Record<string, string>;
-  text: string;
-}
-
-async function elements(svg: string): Promise<El[]> {
-  const doc = await xml2js.parseStringPromise(svg, { strict: true });
-  const out: El[] = [];
-  const walk = (name: string, node: unknown): void => {
-    if (typeof node === 'string') {
-      out.push({ name, attrs: {}, text: node });
-      return;
-    }
-    const o = node as Record<string, unknown>;
-    out.push({ name, attrs: (o.$ as Record<string, string>) ?? {}, text: typeof o._ === 'string' ? o._ : '' });
-    for (const [k, v] of Object.entries(o)) if (k !== '$' && k !== '_') for (const child of v as unknown[]) walk(k, child);
-  };
-  const [rootName] = Object.keys(doc);
-  walk(rootName, doc[rootName]);
-  return out;
-}
+import { elements } from '../support/svg';
 
 /** Allowable 10 %, bias 1 %, CV 2 % with 1-3s/2-2s/R-4s at n = 2 (an invented method). */
 function input(runSize: number, over: Partial<RiskChartInput> = {}): RiskChartInput {
