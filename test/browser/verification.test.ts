@@ -116,7 +116,7 @@ describeInBrowser('task pane: verification', () => {
     expect(await page.textContent('#agreement-facts [data-key="Upper limit"]')).toContain(fmt(f[7] as number, 3));
     expect(await page.locator('#agreement-plot circle.point').count()).toBe(8);
     expect(await page.getAttribute('#agreement-plot svg', 'role')).toBe('img');
-    expect(await page.textContent('#agreement-plot svg desc')).toMatch(/^8 pairs/);
+    expect(await page.textContent('#agreement-plot svg desc')).toMatch(/^Difference plot of 8 pairs/);
     const box = await page.locator('#agreement-plot svg').boundingBox();
     expect(box!.width).toBeLessThanOrEqual(320);
     await screenshot(page, 'verification-comparison.png');

@@ -12,7 +12,8 @@ import { evaluate } from '../../src/registry';
 import type { BlockArea, BlockCell, CellGrid } from '../../src/taskpane/host';
 import { readReplication, shownRows, verificationBlock, verificationFigures } from '../../src/taskpane/study/verification';
 import type { MaterialInput, VerificationInput } from '../../src/taskpane/study/verification';
-import { agreementBlock, agreementFigures, agreementPoints, readComparison } from '../../src/taskpane/study/agreement';
+import { agreementBlock, agreementFigures, agreementPairs, readComparison } from '../../src/taskpane/study/agreement';
+import { pairDifference } from '../../src/charts/differencePlot';
 import { checkChoice, guessChoice, readControls, reviewBlock, reviewControls } from '../../src/taskpane/study/review';
 import type { ReviewChoice } from '../../src/taskpane/study/review';
 import { SelectionProblem } from '../../src/taskpane/study/columns';
@@ -200,12 +201,13 @@ describe('method comparison (difference plot)', () => {
   test.each(['absolute', 'percent'] as const)('points and figures agree (%s): the mean of the points is the mean difference', (scale) => {
     const s = readComparison(grid);
     const f = agreementFigures(s, scale);
-    const pts = agreementPoints(s, scale);
+    const pts = agreementPairs(s, scale);
     expect(pts).toHaveLength(7); // the text pair is skipped, as DATA.AGREEMENT skips it
     expect(f['Pairs']).toBe(7);
-    const mean = pts.reduce((a, p) => a + p.difference, 0) / pts.length;
+    const mean = pts.reduce((a, p) => a + pairDifference(p, scale), 0) / pts.length;
     expect(Math.abs(mean - (f['Mean difference'] as number))).toBeLessThan(1e-12);
-    expect(pts[6]).toMatchObject({ mean: 119, label: 'row 11' });
+    expect(pts[6]).toMatchObject({ x: 120, y: 118, label: 'row 11' });
+    expect((pts[6].x + pts[6].y) / 2).toBe(119);
   });
 
   test('the written block computes DATA.AGREEMENT’s figures', () => {

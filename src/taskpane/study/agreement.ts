@@ -4,7 +4,7 @@
  * difference plot and the block of live formulas written beside it.
  */
 import type { BlockArea, BlockCell, CellGrid } from '../host';
-import type { AgreementPlotInput, AgreementPoint } from '../../charts/agreementPlot';
+import type { DifferencePair, DifferencePlotInput } from '../../charts/differencePlot';
 import { asColumnGrid, columnRef, refuseNumbersAsText, SelectionProblem, studyGrid } from './columns';
 import type { StudyColumn, StudyGrid } from './columns';
 import { cautionRows, formula, headRows, indexFormula, isError, labelledFigures, padRow, text, wordText } from './figures';
@@ -48,34 +48,40 @@ export function agreementFigures(s: ComparisonStudy, scale: Scale): Record<strin
 }
 
 /**
- * The points drawn: every row where both cells are numbers (as DATA.AGREEMENT pairs them), the
- * pair's mean and its difference on the chosen scale. A pair with x + y = 0 on the percent
- * scale has no point (DATA.AGREEMENT itself refuses it).
+ * The pairs drawn: every row where both cells are numbers (as DATA.AGREEMENT pairs them), labelled
+ * by their sheet row. A pair with x + y = 0 on the percent scale is left out (DATA.AGREEMENT
+ * itself refuses it, so the plot is not drawn then).
  */
-export function agreementPoints(s: ComparisonStudy, scale: Scale): AgreementPoint[] {
-  const out: AgreementPoint[] = [];
-  s.x.cells.forEach((xv, i) => {
-    const yv = s.y.cells[i];
-    if (typeof xv !== 'number' || typeof yv !== 'number' || !Number.isFinite(xv) || !Number.isFinite(yv)) return;
-    const mean = (xv + yv) / 2;
-    if (scale === 'percent' && xv + yv === 0) return;
-    const difference = scale === 'absolute' ? yv - xv : (200 * (yv - xv)) / (xv + yv);
-    out.push({ mean, difference, label: `row ${s.grid.top + i}` });
+export function agreementPairs(s: ComparisonStudy, scale: Scale): DifferencePair[] {
+  const out: DifferencePair[] = [];
+  s.x.cells.forEach((x, i) => {
+    const y = s.y.cells[i];
+    if (typeof x !== 'number' || typeof y !== 'number' || !Number.isFinite(x) || !Number.isFinite(y)) return;
+    if (scale === 'percent' && x + y === 0) return;
+    out.push({ x, y, label: `row ${s.grid.top + i}` });
   });
   return out;
 }
 
-/** The plot's input, or why there is none (an error among the figures). */
-export function plotInput(s: ComparisonStudy, scale: Scale, figures: Record<string, Figure>, width: number): AgreementPlotInput | string {
+/** The plot's input (the same difference plot the demo workbook prints), or why there is none (an error among the figures). */
+export function plotInput(s: ComparisonStudy, scale: Scale, figures: Record<string, Figure>, width: number): DifferencePlotInput | string {
   const bad = AGREEMENT_FIGURES.map((k) => figures[k]).find(isError);
   if (bad) return `${bad.error} ${bad.message}`;
   const n = (k: string): number => figures[k] as number;
   return {
     title: `Difference plot: ${s.y.name} against ${s.x.name}`,
-    points: agreementPoints(s, scale),
-    meanDifference: { value: n('Mean difference'), low: n('Mean difference low'), high: n('Mean difference high') },
-    lower: { value: n('Lower limit'), low: n('Lower limit low'), high: n('Lower limit high') },
-    upper: { value: n('Upper limit'), low: n('Upper limit low'), high: n('Upper limit high') },
+    pairs: agreementPairs(s, scale),
+    agreement: {
+      meanDifference: n('Mean difference'),
+      meanDifferenceLow: n('Mean difference low'),
+      meanDifferenceHigh: n('Mean difference high'),
+      lowerLimit: n('Lower limit'),
+      lowerLimitLow: n('Lower limit low'),
+      lowerLimitHigh: n('Lower limit high'),
+      upperLimit: n('Upper limit'),
+      upperLimitLow: n('Upper limit low'),
+      upperLimitHigh: n('Upper limit high'),
+    },
     scale,
     width,
   };

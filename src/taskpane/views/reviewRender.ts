@@ -3,11 +3,10 @@
  * control chart with the list of flagged results beside it (each item focusable: focusing it
  * marks its point on the chart, so the chart can be read by keyboard), and the QC.REVIEW figures.
  */
-import { h, field, uid } from '../dom';
+import { h, field, uid, svgFromString } from '../dom';
 import type { Child } from '../dom';
 import { fmt } from '../format';
 import { readDecimal } from '../../engine/table';
-import { svgNode } from '../svgNode';
 import { controlChartSvg } from '../../charts/controlChart';
 import type { StudyGrid } from '../study/columns';
 import type { FlagLine, ReviewChoice, ReviewOutcome, Setting } from '../study/review';
@@ -79,7 +78,7 @@ function flagItem(f: FlagLine, pointOf: Map<number, Element>): HTMLElement {
 /** The chart, and beside it the flagged results as a list (what a screen reader reads). */
 export function renderChart(out: ReviewOutcome, width: number): HTMLElement[] {
   const id = uid('review-chart');
-  const svg = svgNode(controlChartSvg({ title: 'Control results in SD units', series: out.series, width, id }));
+  const svg = svgFromString(controlChartSvg({ title: 'Control results in SD units', series: out.series, width, id }));
   const pointOf = new Map<number, Element>();
   svg.querySelectorAll('path.point').forEach((p) => {
     const row = out.rowOfPoint.get(`${p.getAttribute('data-material') ?? ''}|${p.getAttribute('data-index') ?? ''}`);

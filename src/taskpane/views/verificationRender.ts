@@ -3,12 +3,11 @@
  * material (precision, trueness, sigma), the comparison's figures and difference plot, and the
  * confirmation asked before replacing cells. Each takes what it shows and returns elements.
  */
-import { h, field, uid } from '../dom';
+import { h, field, uid, svgFromString } from '../dom';
 import type { Child } from '../dom';
 import { fmt } from '../format';
-import { svgNode } from '../svgNode';
-import { agreementPlotSvg } from '../../charts/agreementPlot';
-import type { AgreementPlotInput } from '../../charts/agreementPlot';
+import { differencePlotSvg } from '../../charts/differencePlot';
+import type { DifferencePlotInput } from '../../charts/differencePlot';
 import { isError } from '../study/figures';
 import type { Figure } from '../study/figures';
 import type { MaterialFigures } from '../study/verification';
@@ -125,9 +124,9 @@ export function renderAgreement(f: Record<string, Figure>, unit: string): HTMLEl
 }
 
 /** The difference plot, or the reason it cannot be drawn. */
-export function renderPlot(input: AgreementPlotInput | string): HTMLElement {
+export function renderPlot(input: DifferencePlotInput | string): HTMLElement {
   if (typeof input === 'string') return h('p', { class: 'error', role: 'alert' }, input);
   const box = h('figure', { class: 'study-chart', id: 'agreement-plot' });
-  box.appendChild(svgNode(agreementPlotSvg({ ...input, id: uid('agreement') })));
+  box.appendChild(svgFromString(differencePlotSvg({ ...input, id: uid('agreement') })));
   return box;
 }
