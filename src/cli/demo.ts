@@ -33,6 +33,7 @@ import { assess } from '../engine/assess';
 import type { Fig } from '../engine/assess';
 import type { QcPlan } from '../engine/qc/plan';
 import { QC_PLAN } from '../registry/catalogue/qc';
+import { DATA_AGREEMENT } from '../registry/catalogue/verify';
 import { writeEqaSheet } from './eqa';
 import type { EqaSheetInput } from './eqa';
 import { demoEqaInput } from './eqa/demo';
@@ -350,7 +351,8 @@ function indexFormula(name: string, args: string, label: string): string {
 
 /** The scale the demo's limits of agreement are on: the demo's errors are proportional, so the differences grow with the level. */
 const AGREEMENT_SCALE = 'percent';
-const AGREEMENT_LABELS = ['Mean difference', 'Mean difference low', 'Mean difference high', 'SD of differences', 'Lower limit', 'Lower limit low', 'Lower limit high', 'Upper limit', 'Upper limit low', 'Upper limit high'] as const;
+/** DATA.AGREEMENT's labels but the count of pairs (shown in a column of its own). */
+const AGREEMENT_LABELS = DATA_AGREEMENT.labels.filter((l): l is Exclude<(typeof DATA_AGREEMENT.labels)[number], 'Pairs'> => l !== 'Pairs');
 const TRUENESS_LABELS = ['Mean', 'Bias', 'Bias %', 'Standard error', 'df', 'Verification low', 'Verification high', 'Verified'] as const;
 /** Width in px the difference plots are drawn at for print, and how much larger they are placed (legible after the page's fit-to-width scale). */
 const PLOT_WIDTH = 480;

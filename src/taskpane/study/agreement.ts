@@ -9,6 +9,7 @@ import { asColumnGrid, columnRef, refuseNumbersAsText, SelectionProblem, studyGr
 import type { StudyColumn, StudyGrid } from './columns';
 import { cautionRows, formula, headRows, indexFormula, isError, labelledFigures, padRow, text, wordText } from './figures';
 import type { Figure, Provenance } from './figures';
+import { DATA_AGREEMENT } from '../../registry/catalogue/verify';
 
 export type Scale = 'absolute' | 'percent';
 
@@ -28,20 +29,8 @@ export function readComparison(grid: CellGrid): ComparisonStudy {
   return { grid: g, x: g.columns[0], y: g.columns[1] };
 }
 
-/** The labels of DATA.AGREEMENT's spill, as the catalogue gives them. */
-export const AGREEMENT_FIGURES = [
-  'Mean difference',
-  'Mean difference low',
-  'Mean difference high',
-  'SD of differences',
-  'Lower limit',
-  'Lower limit low',
-  'Lower limit high',
-  'Upper limit',
-  'Upper limit low',
-  'Upper limit high',
-  'Pairs',
-] as const;
+/** The labels of DATA.AGREEMENT's spill: the catalogue's own. */
+export const AGREEMENT_FIGURES = DATA_AGREEMENT.labels;
 
 export function agreementFigures(s: ComparisonStudy, scale: Scale): Record<string, Figure> {
   return labelledFigures('DATA.AGREEMENT', [asColumnGrid(s.x), asColumnGrid(s.y), scale]);

@@ -23,6 +23,7 @@ import { asColumnGrid, columnRef, refuseNumbersAsText, SelectionProblem, studyGr
 import type { StudyColumn, StudyGrid } from './columns';
 import { callText, cautionRows, formula, headRows, indexFormula, isError, labelledFigures, numberText, text, wordText } from './figures';
 import type { Figure, Provenance } from './figures';
+import { QC_REVIEW } from '../../registry/catalogue/qc';
 
 /** The target or the SD: one number for every result, or a column of the selection. */
 export type Setting = { readonly kind: 'number'; readonly value: number } | { readonly kind: 'column'; readonly index: number };
@@ -177,8 +178,8 @@ export function reviewControls(g: StudyGrid, c: ReviewChoice): ReviewOutcome | {
   return { flags, figures, series: chartSeries(ev), flagged, rowOfPoint };
 }
 
-/** The labels of QC.REVIEW's spill, as the catalogue gives them. */
-export const REVIEW_LABELS = ['Results', 'Runs', 'Runs flagged', 'Share of runs flagged', 'Expected false rejection per run', 'Mean z', 'SD of z', 'Results beyond 2 SD'] as const;
+/** The labels of QC.REVIEW's spill: the catalogue's own. */
+export const REVIEW_LABELS = QC_REVIEW.labels;
 
 const REVIEW_FORMATS: Readonly<Record<string, string>> = {
   'Share of runs flagged': '0.000',
