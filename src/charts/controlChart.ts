@@ -17,6 +17,10 @@
  * line (SVG, or PNG through an SVG renderer).
  */
 import type { ControlEvaluation } from '../engine/qc/flags';
+import { cut, escapeXml, f, fits, flowKey, textWidth } from './text';
+
+// Shared with the other charts; kept importable from here.
+export { cut, escapeXml };
 
 /** One control result on the chart. */
 export interface ChartPoint {
@@ -49,8 +53,6 @@ export interface ControlChartInput {
 export const Z_EDGE = 4.5;
 
 /** Width per character, as a share of the font size, used to cut text (generous for sans-serif). */
-const CHAR_EM = 0.62;
-
 /** A restrained palette of dark, distinguishable tones (chosen for this chart). */
 const INK = ['#24527a', '#8a4b16', '#3d6b45', '#6b4a86', '#505050', '#7a2f3b'];
 const FLAG_INK = '#a01e1e';
@@ -83,35 +85,6 @@ const SHAPES: Shape[] = [
     );
   },
 ];
-
-/** A coordinate with two decimals ("-0.00" written as "0.00"). */
-function f(x: number): string {
-  const s = x.toFixed(2);
-  return s === '-0.00' ? '0.00' : s;
-}
-
-/** Text for XML content and attribute values. */
-export function escapeXml(text: string): string {
-  return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] as string);
-}
-
-/** Cuts text to at most `max` characters (code points), ending with "…" when cut. */
-export function cut(text: string, max: number): string {
-  const chars = Array.from(text);
-  if (chars.length <= max) return text;
-  if (max <= 1) return '…';
-  return chars.slice(0, max - 1).join('') + '…';
-}
-
-/** How many characters of a font size fit a width. */
-function fits(width: number, fontSize: number): number {
-  return Math.max(1, Math.floor(width / (CHAR_EM * fontSize)));
-}
-
-/** The estimated width of a text (an upper bound for common sans-serif fonts). */
-function textWidth(text: string, fontSize: number): number {
-  return Array.from(text).length * CHAR_EM * fontSize;
-}
 
 function showZ(z: number): string {
   const s = z.toFixed(2);
@@ -193,19 +166,7 @@ export function controlChartSvg(input: ControlChartInput): string {
   if (anyClamp) entries.push({ kind: 'clamp', text: `beyond ±${Z_EDGE} SD (on the edge)`, s: -1 });
   const sample = 22;
   const legendRow = fsText + 7;
-  const placed: Array<{ x: number; row: number }> = [];
-  let lx = pad;
-  let row = 0;
-  for (const e of entries) {
-    const w = sample + 4 + textWidth(e.text, fsText) + 12;
-    if (lx > pad && lx + w > W - pad) {
-      row++;
-      lx = pad;
-    }
-    placed.push({ x: lx, row });
-    lx += w;
-  }
-  const legendRows = entries.length ? row + 1 : 0;
+  const { placed, rows: legendRows } = flowKey(entries.map((e) => sample + 4 + textWidth(e.text, fsText) + 12), pad, W - pad);
 
   // Frame: title on top, SD labels at the left, run-order ticks, axis name and legend below.
   const top = pad + fsTitle + 10;

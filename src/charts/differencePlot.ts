@@ -17,7 +17,7 @@
  * the drawing can be checked against the data. Shared by the task pane (inline SVG, 288–320 px)
  * and the command line (PNG through an SVG renderer).
  */
-import { cut, escapeXml } from './controlChart';
+import { cut, escapeXml, f, fits, flowKey, textWidth } from './text';
 
 /** One pair of results: x from the comparative method, y from the candidate. */
 export interface DifferencePair {
@@ -58,26 +58,12 @@ export interface DifferencePlotInput {
   readonly id?: string;
 }
 
-const CHAR_EM = 0.62;
 const POINT_INK = '#24527a';
 const MEAN_INK = '#8a4b16';
 const LIMIT_INK = '#3d3d3d';
 const MEAN_BAND = '#f3e3d3';
 const LIMIT_BAND = '#e4e4e4';
 const ZERO_INK = '#9a9a9a';
-
-function f(x: number): string {
-  const s = x.toFixed(2);
-  return s === '-0.00' ? '0.00' : s;
-}
-
-function fits(width: number, fontSize: number): number {
-  return Math.max(1, Math.floor(width / (CHAR_EM * fontSize)));
-}
-
-function textWidth(text: string, fontSize: number): number {
-  return Array.from(text).length * CHAR_EM * fontSize;
-}
 
 /** A number for a label: `decimals` decimals, or about three significant digits; a true minus sign. */
 export function showValue(v: number, decimals?: number): string {
@@ -211,19 +197,8 @@ export function differencePlotSvg(input: DifferencePlotInput): string {
     { kind: 'band', text: `${pct} confidence interval of each line` },
   ];
   const sample = 22;
-  const keyPlaced: Array<{ x: number; row: number }> = [];
-  let kx = pad;
-  let krow = 0;
-  for (const e of keyEntries) {
-    const w = sample + 4 + textWidth(e.text, fsText) + 12;
-    if (kx > pad && kx + w > W - pad) {
-      krow++;
-      kx = pad;
-    }
-    keyPlaced.push({ x: kx, row: krow });
-    kx += w;
-  }
-  const H = Math.round(keyTop + (krow + 1) * keyRow + pad);
+  const { placed: keyPlaced, rows: keyRows } = flowKey(keyEntries.map((e) => sample + 4 + textWidth(e.text, fsText) + 12), pad, W - pad);
+  const H = Math.round(keyTop + keyRows * keyRow + pad);
 
   const xOf = (v: number): number => left + ((v - xLo) / (xHi - xLo)) * plotW;
   const yOf = (v: number): number => top + ((yHi - v) / (yHi - yLo)) * plotH;

@@ -14,7 +14,7 @@
  * sans-serif font is installed. Marks carry data-* attributes (deviation at full precision,
  * limit, round) so the drawing can be checked against the data.
  */
-import { cut, escapeXml } from './controlChart';
+import { CHAR_EM, cut, escapeXml, f, flowKey, textWidth } from './text';
 import type { EqaAnalyteRounds } from '../engine/eqaRounds';
 
 /** One round on the chart. */
@@ -38,7 +38,6 @@ export interface EqaChartInput {
   readonly id?: string;
 }
 
-const CHAR_EM = 0.62;
 const INK = {
   point: '#1f4e79',
   outside: '#b23a1e',
@@ -49,16 +48,6 @@ const INK = {
   grid: '#e2e2e2',
   text: '#303030',
 };
-
-/** A coordinate with two decimals ("-0.00" written as "0.00"). */
-function f(x: number): string {
-  const s = x.toFixed(2);
-  return s === '-0.00' ? '0.00' : s;
-}
-
-function textWidth(text: string, size: number): number {
-  return Array.from(text).length * CHAR_EM * size;
-}
 
 /** A tick step of 1, 2 or 5 × 10^k giving at most `most` steps over `span`. */
 function tickStep(span: number, most: number): number {
@@ -154,18 +143,7 @@ export function eqaChartSvg(input: EqaChartInput): string {
   if (anyMissing) keys.push({ kind: 'missing', text: 'No deviation (error)' });
   const sample = 18;
   const legendRow = fs + 8;
-  const placed: Array<{ x: number; row: number }> = [];
-  let lx = pad;
-  let row = 0;
-  for (const k of keys) {
-    const w = sample + 5 + textWidth(k.text, fs) + 12;
-    if (lx > pad && lx + w > W - pad) {
-      row++;
-      lx = pad;
-    }
-    placed.push({ x: lx, row });
-    lx += w;
-  }
+  const { placed, rows: legendRows } = flowKey(keys.map((k) => sample + 5 + textWidth(k.text, fs) + 12), pad, W - pad);
 
   const titleLines = wrapTitle(input.title, Math.floor((W - 2 * pad) / (CHAR_EM * fsTitle)));
   const titleH = titleLines.length * (fsTitle + 3);
@@ -173,7 +151,7 @@ export function eqaChartSvg(input: EqaChartInput): string {
   const plotBottom = plotTop + plotH;
   const axisName = plotBottom + 4 + labelH + fs + 4;
   const legendTop = axisName + 8;
-  const H = Math.round(legendTop + (row + 1) * legendRow + pad);
+  const H = Math.round(legendTop + legendRows * legendRow + pad);
   const xOf = (i: number): number => left + slot * (i + 0.5);
   const yOf = (p: number): number => plotTop + ((top - p) / (2 * top)) * plotH;
 

@@ -12,7 +12,7 @@
  * precision, so the drawing can be checked against the engine. <title> and <desc> say in words
  * what the chart shows, for screen readers.
  */
-import { escapeXml, cut } from './controlChart';
+import { CHAR_EM, cut, escapeXml, f, fits } from './text';
 
 export interface RiskChartPoint {
   /** Shift, SD of the method (≥ 0). */
@@ -40,17 +40,7 @@ export interface RiskChartInput {
   readonly id?: string;
 }
 
-const CHAR_EM = 0.62;
 const INK = { curve: '#1d4f73', area: '#dbe7f0', peak: '#8a2a0a', limit: '#5c5c5c', axis: '#404040', frame: '#b0b0b0', grid: '#e4e4e4' };
-
-function f(x: number): string {
-  const s = x.toFixed(2);
-  return s === '-0.00' ? '0.00' : s;
-}
-
-function fits(width: number, fontSize: number): number {
-  return Math.max(1, Math.floor(width / (CHAR_EM * fontSize)));
-}
 
 /** A count of unreliable results as a reader wants it: three significant digits, no exponent below 1e6. */
 export function showRisk(x: number): string {
