@@ -20,7 +20,7 @@ import { svgToPng } from './picture';
 import { CELL_PADDING, columnPoints, longestWord } from './document';
 import { differencePlotSvg } from '../charts/differencePlot';
 import type { AgreementLines } from '../charts/differencePlot';
-import { evaluate, findFunction } from '../registry';
+import { evaluate, evaluateLabelled, findFunction } from '../registry';
 import type { Arg } from '../registry';
 import type { OutCell } from '../registry/types';
 import { demoData, demoTable, demoVerification, DEMO_ANALYSERS, DEMO_LAB, DEMO_MARKER, reportedDecimals, REPLICATES_PER_DAY, REPLICATION_DAYS, VERIFICATION_MATERIALS } from '../engine/demo';
@@ -59,21 +59,8 @@ function scalar(name: string, args: readonly Arg[]): OutCell {
   return evaluate(name, args)[0][0];
 }
 
-/** A labelled spill as label → value (an error fills every label). */
-function labelled(name: string, args: readonly Arg[]): Map<string, OutCell> {
-  const out = evaluate(name, args);
-  const m = new Map<string, OutCell>();
-  if (out.length === 1) {
-    m.set('*', out[0][0]);
-    return m;
-  }
-  out[0].forEach((label, i) => m.set(String(label), out[1][i]));
-  return m;
-}
-
 function pick(m: Map<string, OutCell> | undefined, label: string): OutCell | undefined {
-  if (!m) return undefined;
-  return m.get(label) ?? m.get('*');
+  return m?.get(label);
 }
 
 const num = (v: OutCell | undefined): number | undefined => (typeof v === 'number' ? v : undefined);
@@ -112,7 +99,7 @@ function cellOf<T extends number | string | boolean>(f: Fig<T>): OutCell | undef
 function planCells(f: Fig<QcPlan>): Map<string, OutCell> | undefined {
   if (!f.ok) {
     const c = cellOf(f as Fig<number>);
-    return c === undefined ? undefined : new Map([['*', c]]);
+    return c === undefined ? undefined : new Map(QC_PLAN.labels.map((l) => [l, c]));
   }
   const p = f.value;
   const values: Record<(typeof QC_PLAN.labels)[number], OutCell> = {
@@ -135,13 +122,13 @@ export function demoFigures(): Observed[] {
   const table = demoTable();
   return demoData().map((data, i) => {
     const r = table.rows[i];
-    const precision = labelled('DATA.PRECISION', [col(data.replication.map((x) => x.result)), colText(data.replication.map((x) => x.day))]);
+    const precision = evaluateLabelled('DATA.PRECISION', [col(data.replication.map((x) => x.result)), colText(data.replication.map((x) => x.day))]);
     const cv = pick(precision, 'Within-lab CV %');
     const results = col(data.eqa.map((x) => x.result));
     const targets = col(data.eqa.map((x) => x.target));
     const bias = scalar('DATA.BIAS', [results, targets]);
     const rmsBias = scalar('DATA.RMSBIAS', [results, targets]);
-    const compare = labelled('DATA.COMPARE', [col(data.comparison.map((x) => x.x)), col(data.comparison.map((x) => x.y)), 'passing-bablok', data.level]);
+    const compare = evaluateLabelled('DATA.COMPARE', [col(data.comparison.map((x) => x.x)), col(data.comparison.map((x) => x.y)), 'passing-bablok', data.level]);
     const observed = num(cv) !== undefined && num(bias) !== undefined ? { bias: num(bias)!, cv: num(cv)! } : null;
     const chain = assess({ spec: r, tier: 'desirable', z: 1.65, observed, plan: true });
     const biasValues = col(data.eqa.map((x) => (100 * (x.result - x.target)) / x.target));
@@ -376,7 +363,7 @@ interface MaterialFigures {
 
 /** CV limits when the CV and its df are numbers. */
 function cvLimitsOf(cv: OutCell | undefined, df: OutCell | undefined): Map<string, OutCell> | undefined {
-  return num(cv) !== undefined && num(df) !== undefined ? labelled('DATA.CVLIMITS', [num(cv)!, num(df)!]) : undefined;
+  return num(cv) !== undefined && num(df) !== undefined ? evaluateLabelled('DATA.CVLIMITS', [num(cv)!, num(df)!]) : undefined;
 }
 
 /** Every figure of the verification study: precision, CV limits, sigma against the analyte's allowance in use, trueness. */
@@ -387,8 +374,8 @@ function verificationFigures(figures: readonly Observed[]): Array<{ analyte: Ver
     const materials = a.materials.map((m): MaterialFigures => {
       const values = col(m.replication.map((x) => x.result));
       const groups = colText(m.replication.map((x) => x.day));
-      const precision = labelled('DATA.PRECISION', [values, groups]);
-      const verify = labelled('VERIFY.PRECISION', [values, groups, m.claim.repeatability, m.claim.withinLab, VERIFICATION_MATERIALS]);
+      const precision = evaluateLabelled('DATA.PRECISION', [values, groups]);
+      const verify = evaluateLabelled('VERIFY.PRECISION', [values, groups, m.claim.repeatability, m.claim.withinLab, VERIFICATION_MATERIALS]);
       const wlCv = pick(precision, 'Within-lab CV %');
       const wlDf = pick(precision, 'Within-lab df');
       const inputs = [observed.allowable, observed.bias, wlCv, wlDf, observed.uBias].map(num);
@@ -400,12 +387,12 @@ function verificationFigures(figures: readonly Observed[]): Array<{ analyte: Ver
         verify,
         repeatabilityLimits: cvLimitsOf(pick(precision, 'Repeatability CV %'), pick(verify, 'Repeatability df')),
         withinLabLimits: cvLimitsOf(wlCv, wlDf),
-        sigma: inputs.every((x) => x !== undefined) ? labelled('PERF.SIGMALIMITS', inputs as number[]) : undefined,
-        trueness: m.assigned ? labelled('VERIFY.TRUENESS', [values, groups, m.assigned.value, m.assigned.u, 1]) : undefined,
+        sigma: inputs.every((x) => x !== undefined) ? evaluateLabelled('PERF.SIGMALIMITS', inputs as number[]) : undefined,
+        trueness: m.assigned ? evaluateLabelled('VERIFY.TRUENESS', [values, groups, m.assigned.value, m.assigned.u, 1]) : undefined,
       };
     });
     const pairs = observed.data.comparison;
-    const agreement = labelled('DATA.AGREEMENT', [col(pairs.map((p) => p.x)), col(pairs.map((p) => p.y)), AGREEMENT_SCALE]);
+    const agreement = evaluateLabelled('DATA.AGREEMENT', [col(pairs.map((p) => p.x)), col(pairs.map((p) => p.y)), AGREEMENT_SCALE]);
     return { analyte: a, observed, materials, agreement };
   });
 }

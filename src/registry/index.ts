@@ -12,7 +12,7 @@ import { VERIFY_FUNCTIONS } from './catalogue/verify';
 import { EQA_FUNCTIONS } from './catalogue/eqa';
 import { compile, Evaluator } from './evaluate';
 import type { FunctionDef } from './define';
-import type { Arg, ErrorCell, Output } from './types';
+import type { Arg, ErrorCell, OutCell, Output } from './types';
 
 export const NAMESPACE = 'LEEWAY';
 
@@ -56,6 +56,17 @@ const unknown = (name: string): Output => [[{ error: '#VALUE!', message: `unknow
 export function evaluate(name: string, args: readonly Arg[]): Output {
   const e = compiledFunction(name);
   return e ? e.run(args) : unknown(name);
+}
+
+/**
+ * A labelled function's figures, label → cell, in the catalogue's order. When the call fails as a
+ * whole (one error cell in place of the spill), every label holds that error.
+ */
+export function evaluateLabelled(name: string, args: readonly Arg[]): Map<string, OutCell> {
+  const def = findFunction(name);
+  if (!def || !def.labels) throw new Error(`${name} is not a labelled worksheet function`);
+  const out = evaluate(name, args);
+  return new Map(def.labels.map((label, k) => [label, out.length >= 2 ? out[1][k] : out[0][0]]));
 }
 
 export type { Arg, Output } from './types';

@@ -1,4 +1,4 @@
-import { evaluate, findFunction, FUNCTIONS } from '../../src/registry';
+import { evaluate, evaluateLabelled, findFunction, FUNCTIONS } from '../../src/registry';
 import type { Output } from '../../src/registry';
 
 const codeOf = (out: Output, r = 0, c = 0): string | undefined => {
@@ -172,5 +172,24 @@ describe('spilled calls give what a cell-by-cell call gives', () => {
         }
       }
     }
+  });
+});
+
+describe('evaluateLabelled: a labelled spill as label → cell', () => {
+  test('the catalogue\'s labels in order, each with its figure', () => {
+    const out = evaluate('EQA.CONSENSUS', [[[5.02], [4.97], [5.1], [5.05], [4.99]]]);
+    const m = evaluateLabelled('EQA.CONSENSUS', [[[5.02], [4.97], [5.1], [5.05], [4.99]]]);
+    expect([...m.keys()]).toEqual(out[0]);
+    expect([...m.values()]).toEqual(out[1]);
+  });
+
+  test('a call that fails as a whole puts its error under every label', () => {
+    const m = evaluateLabelled('EQA.CONSENSUS', [[[5.02], [4.97]]]);
+    expect(m.size).toBe(4);
+    for (const cell of m.values()) expect(cell).toMatchObject({ error: '#NUM!' });
+  });
+
+  test('a function without labels is a programming error', () => {
+    expect(() => evaluateLabelled('SPEC.CV', [5])).toThrow(/not a labelled worksheet function/);
   });
 });

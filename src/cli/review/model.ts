@@ -8,7 +8,7 @@
  * Figures come from the registry (the worksheet functions the sheets' formulas call), so a
  * cached value is what the formula computes.
  */
-import { evaluate } from '../../registry';
+import { evaluate, evaluateLabelled } from '../../registry';
 import type { Arg, OutCell } from '../../registry/types';
 import type { ControlAnalyteResults, ControlLevelResults, ControlResult, ControlResultsFile } from '../../engine/import';
 import type { VariationRow, VariationTable } from '../../engine/table';
@@ -82,21 +82,9 @@ export interface ReviewRequest {
 
 const col = <T extends string | number>(xs: readonly T[]): T[][] => xs.map((x) => [x]);
 
-/** A labelled spill as label → value (an error in one cell fills every label). */
-export function labelled(name: string, args: readonly Arg[]): ReviewFigures {
-  const out = evaluate(name, args);
-  const m = new Map<string, OutCell>();
-  if (out.length === 1) {
-    m.set('*', out[0][0]);
-    return m;
-  }
-  out[0].forEach((label, i) => m.set(String(label), out[1][i]));
-  return m;
-}
-
-/** A figure of a labelled spill (the error that replaced the whole spill, when one did). */
+/** A figure of a labelled spill (the error that replaced the whole spill, when one did, stands under every label). */
 export function figure(m: ReviewFigures, label: string): OutCell {
-  return m.get(label) ?? m.get('*') ?? { error: '#N/A', message: `no figure "${label}"` };
+  return m.get(label) ?? { error: '#N/A', message: `no figure "${label}"` };
 }
 
 function scalar(name: string, args: readonly Arg[]): OutCell {
@@ -185,7 +173,7 @@ export function reviewAnalyte(a: ControlAnalyteResults, results: readonly Contro
   const runs = col(results.map((r) => r.run));
   const levels = col(results.map((r) => r.level));
   const flags = evaluate('QC.FLAGS', [values, targets, sds, chosen.rule, runs, levels]).map((r) => String(r[0]));
-  const review = labelled('QC.REVIEW', [values, targets, sds, chosen.rule, runs, levels]);
+  const review = evaluateLabelled('QC.REVIEW', [values, targets, sds, chosen.rule, runs, levels]);
   const evaluation = evaluateControls({ values: results.map((r) => r.value), target: results.map((r) => r.target), sd: results.map((r) => r.sd), rule: parseRule(chosen.rule), runs: results.map((r) => r.run), levels: results.map((r) => r.level) });
   const n = chosen.n ?? usualRunSize(evaluation);
   const nFrom = chosen.n !== undefined ? 'controls per run of the QC plan' : 'the number of results most runs hold';
@@ -194,7 +182,7 @@ export function reviewAnalyte(a: ControlAnalyteResults, results: readonly Contro
   const materials = inputs.map((m): MaterialReview => {
     const positions = m.level.results.map((r) => (index.get(r) as number) + 1);
     const own = m.level.results;
-    const materialReview = labelled('QC.REVIEW', [col(m.values), col(own.map((r) => r.target)), col(own.map((r) => r.sd)), chosen.rule, col(own.map((r) => r.run))]);
+    const materialReview = evaluateLabelled('QC.REVIEW', [col(m.values), col(own.map((r) => r.target)), col(own.map((r) => r.sd)), chosen.rule, col(own.map((r) => r.run))]);
     const { runSize, statement } = runSizeOf(m, chosen.rule, n, request.labRunSize);
     return {
       level: m.level,

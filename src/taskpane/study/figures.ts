@@ -5,7 +5,7 @@
  * result is corrected. A labelled spill's figure is written as INDEX(LEEWAY.X(…),2,k), k being
  * the label's place in the catalogue.
  */
-import { evaluate, findFunction, NAMESPACE } from '../../registry';
+import { evaluate, evaluateLabelled, findFunction, NAMESPACE } from '../../registry';
 import type { Arg } from '../../registry';
 import type { ErrorCell, OutCell } from '../../registry/types';
 import type { BlockCell, BlockStyle } from '../host';
@@ -18,14 +18,7 @@ export const isError = (f: Figure | undefined): f is ErrorCell => typeof f === '
 
 /** The figures of a labelled spill by label; a call that fails as a whole gives its error under every label. */
 export function labelledFigures(name: string, args: readonly Arg[]): Record<string, Figure> {
-  const def = findFunction(name);
-  if (!def || !def.labels) throw new Error(`${name} is not a labelled worksheet function`);
-  const out = evaluate(name, args);
-  const figures: Record<string, Figure> = {};
-  def.labels.forEach((label, k) => {
-    figures[label] = out.length >= 2 ? out[1][k] : out[0][0];
-  });
-  return figures;
+  return Object.fromEntries(evaluateLabelled(name, args));
 }
 
 /** One figure of a single-valued function (its one cell). */
