@@ -10,11 +10,11 @@ import * as fs from 'fs';
 import * as path from 'path';
 import ExcelJS from 'exceljs';
 import { leeway, tempDir, TABLES } from './support';
-import { findSoffice, overlappingWords, pageSizes, pageTexts, pdfImages, pdfWords, pictures, toPdf } from './render';
+import { expectEveryCellWhole, findSoffice, overlappingWords, pageSizes, pageTexts, pdfImages, pdfWords, pictures, toPdf } from './render';
 import type { Word } from './render';
 import { DEMO_MARKER, TITLE } from '../../src/engine/fill';
 import { VERSION } from '../../src/engine/version';
-import { SIGN_OFF_FIELDS, SIGN_OFF_ROLES, SIGN_OFF_TITLE, shownText } from '../../src/cli/document';
+import { SIGN_OFF_FIELDS, SIGN_OFF_ROLES, SIGN_OFF_TITLE } from '../../src/cli/document';
 
 const DATE = '2026-02-03';
 const OUT = path.join(__dirname, '..', '..', 'out', 'print');
@@ -42,24 +42,6 @@ async function render(name: string, args: string[], profile: string): Promise<Re
   return { pdf, wb, pages: pageTexts(pdf), words: pdfWords(pdf), sizes: pageSizes(pdf) };
 }
 
-/** Every word of every cell's shown text is a word of the PDF: nothing is cut or shown as ####. */
-function expectEveryCellWhole(wb: ExcelJS.Workbook, words: readonly Word[]): void {
-  const printed = new Set(words.map((w) => w.text));
-  const missing: string[] = [];
-  for (const ws of wb.worksheets) {
-    ws.eachRow((row) =>
-      row.eachCell((cell) => {
-        for (const w of shownText(cell).split(/\s+/).filter(Boolean)) {
-          // A negative number that rounds to zero: LibreOffice prints 0.000 where Excel keeps the sign (common practice, no source).
-          const alt = /^-0(\.0+)?$/.test(w) ? w.slice(1) : w;
-          if (!printed.has(w) && !printed.has(alt)) missing.push(`${ws.name}!${cell.address}: ${w}`);
-        }
-      }),
-    );
-  }
-  expect(missing).toEqual([]);
-  expect(words.filter((w) => /^#+$/.test(w.text))).toEqual([]);
-}
 
 /** Every page: the page header's title, "Page k of N", the date and the program in the footer. */
 function expectHeaderFooter(pages: readonly string[], title: (page: number) => string, demo: boolean): void {

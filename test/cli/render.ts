@@ -5,6 +5,8 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import { execFileSync } from 'child_process';
+import type ExcelJS from 'exceljs';
+import { shownText } from '../../src/cli/document';
 
 /** The LibreOffice program, or '' when it is not installed. */
 export function findSoffice(): string {
@@ -109,4 +111,28 @@ export function pictures(pdf: string, prefix: string, dpi = 60): string[] {
   const dir = path.dirname(prefix);
   const base = path.basename(prefix);
   return fs.readdirSync(dir).filter((f) => f.startsWith(`${base}-`) && f.endsWith('.png')).sort().map((f) => path.join(dir, f));
+}
+
+/**
+ * Every word of every cell's shown text is a word of the PDF: nothing is cut or shown as ####.
+ * exceljs leaves a cached 0 out of the formula value it reads back; cell.result has it.
+ */
+export function expectEveryCellWhole(wb: ExcelJS.Workbook, words: readonly Word[]): void {
+  const printed = new Set(words.map((w) => w.text));
+  const missing: string[] = [];
+  for (const ws of wb.worksheets) {
+    ws.eachRow((row) =>
+      row.eachCell((cell) => {
+        const v = cell.value;
+        const shown = v && typeof v === 'object' && ('formula' in v || 'sharedFormula' in v) ? shownText({ value: { formula: cell.formula, result: cell.result }, numFmt: cell.numFmt } as unknown as ExcelJS.Cell) : shownText(cell);
+        for (const w of shown.split(/\s+/).filter(Boolean)) {
+          // A negative number that rounds to zero: LibreOffice prints 0.00 where Excel keeps the sign (common practice, no source).
+          const alt = /^-0(\.0+)?$/.test(w) ? w.slice(1) : w;
+          if (!printed.has(w) && !printed.has(alt)) missing.push(`${ws.name}!${cell.address}: ${w}`);
+        }
+      }),
+    );
+  }
+  expect(missing).toEqual([]);
+  expect(words.filter((w) => /^#+$/.test(w.text))).toEqual([]);
 }
