@@ -15,17 +15,10 @@ import { HostError, OccupiedError } from '../../../src/taskpane/host';
 import type { BlockArea, BlockCell } from '../../../src/taskpane/host';
 import type { ExcelRun, SheetIO } from '../../../src/taskpane/excel';
 import { a1, parseA1 } from '../../../src/engine/fill';
+import { rangeCells } from '../../support/excel-harness';
 
 type Model = Map<string, string | number>;
 
-function cellsOf(address: string): Array<{ row: number; col: number }> {
-  const [from, to] = address.split(':');
-  const a = parseA1(from)!;
-  const b = to ? parseA1(to)! : a;
-  const out = [];
-  for (let r = a.row; r <= b.row; r++) for (let c = a.col; c <= b.col; c++) out.push({ row: r, col: c });
-  return out;
-}
 
 /** A sheet model behind office-addin-mock: formulas, formats, styles and column widths by address. */
 function mockExcel(initial: Record<string, string | number> = {}, widths: Record<number, number> = {}) {
@@ -38,7 +31,7 @@ function mockExcel(initial: Record<string, string | number> = {}, widths: Record
   const sheet = {
     getRange(address: string) {
       const whole = /^([A-Z]+):\1$/.exec(address);
-      const cells = whole ? [] : cellsOf(address);
+      const cells = whole ? [] : rangeCells(address);
       const rows = new Map<number, unknown[]>();
       for (const c of cells) {
         if (!rows.has(c.row)) rows.set(c.row, []);
@@ -57,7 +50,7 @@ function mockExcel(initial: Record<string, string | number> = {}, widths: Record
   };
   const flush = (): void => {
     for (const p of pending.splice(0)) {
-      const cells = /^([A-Z]+):\1$/.test(p.address) ? [] : cellsOf(p.address);
+      const cells = /^([A-Z]+):\1$/.test(p.address) ? [] : rangeCells(p.address);
       const f = p.mock.formulas;
       if (Array.isArray(f) && f !== p.loaded) (f as unknown[][]).flat().forEach((v, i) => v !== null && (v === '' ? model.delete(a1(cells[i])) : model.set(a1(cells[i]), v as string | number)));
       const nf = p.mock.numberFormat as (string | null)[][];
