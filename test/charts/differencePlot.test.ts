@@ -150,6 +150,15 @@ describe('the difference plot as SVG', () => {
     expect(desc.text).toContain('Difference plot of 30 pairs');
     expect(desc.text).toContain(`Mean difference ${showValue(a.meanDifference)}`);
     expect(svg).not.toMatch(/NaN|Infinity/);
+    // The text equivalent counts the pairs outside the limits (what a reader of the picture sees).
+    const outside = ps.map((p) => pairDifference(p, 'percent')).filter((d) => d < a.lowerLimit || d > a.upperLimit).length;
+    expect(desc.text).toContain(`${outside} pair(s) outside the limits.`);
+  });
+
+  test('fits the task pane at 288 px and widens for print', () => {
+    const a = agreementOf(ps, 'absolute');
+    expect(differencePlotSvg({ title: 't', pairs: ps, agreement: a, width: 288 })).toMatch(/^<svg [^>]*width="288"/);
+    expect(differencePlotSvg({ title: 't', pairs: ps, agreement: a, width: 900 })).toMatch(/^<svg [^>]*width="900"/);
   });
 
   test('the values beside the lines with the decimals asked for (as the table beside the plot shows them)', async () => {
